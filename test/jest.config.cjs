@@ -1,0 +1,13 @@
+// Cross-cutting suites: browser end-to-end (playwright-core + Debian Chromium) against the real
+// server started once for the run by e2e/global-setup.
+module.exports = {
+  displayName: 'e2e',
+  rootDir: __dirname,
+  testEnvironment: 'node',
+  testMatch: ['<rootDir>/e2e/**/*.test.ts'],
+  transform: { '^.+\\.ts$': require('../jest.swc.cjs') },
+  globalSetup: '<rootDir>/e2e/global-setup.ts',
+  globalTeardown: '<rootDir>/e2e/global-teardown.ts',
+  testTimeout: 90_000,
+  maxWorkers: 1,
+};
