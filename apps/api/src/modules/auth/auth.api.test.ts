@@ -205,6 +205,25 @@ describe('demo accounts', () => {
   });
 });
 
+describe('GET /api/auth/session', () => {
+  it('answers 200 with me: null when nobody is signed in', async () => {
+    const res = await request(t.app).get('/api/auth/session');
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual({ me: null });
+  });
+
+  it('answers the signed-in user, and null again after sign-out', async () => {
+    const client = await ApiClient.signedIn(t.app, north.users.manager.email, testPassword);
+    const signedIn = await client.get('/api/auth/session');
+    expect(signedIn.status).toBe(200);
+    expect(signedIn.body.me.user.email).toBe(north.users.manager.email);
+    expect(signedIn.body.me.role).toBe('manager');
+    expect((await client.send('post', '/api/auth/logout')).status).toBe(204);
+    const after = await client.get('/api/auth/session');
+    expect(after.body).toEqual({ me: null });
+  });
+});
+
 describe('GET /api/me', () => {
   it('responds 401 unauthenticated without a session', async () => {
     const res = await request(t.app).get('/api/me');

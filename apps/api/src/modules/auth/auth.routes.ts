@@ -2,10 +2,10 @@ import type { Request } from 'express';
 import { audit } from '../../lib/audit';
 import { clearCsrfCookie, issueCsrfToken } from '../../lib/csrf';
 import { withScope } from '../../lib/db';
-import { Forbidden, Unauthorized } from '../../lib/errors';
+import { AppError, Forbidden, Unauthorized } from '../../lib/errors';
 import { sessionCookieName } from '../../lib/session';
 import { defineRoute } from '../../routing/route';
-import { ActiveOrganisationBody, LoginBody, MeDto } from './auth.schemas';
+import { ActiveOrganisationBody, LoginBody, MeDto, SessionDto } from './auth.schemas';
 import { assertMember, buildMe } from './auth.service';
 
 function regenerate(req: Request): Promise<void> {
@@ -70,6 +70,27 @@ export const authRoutes = [
       if (req.session) await destroy(req);
       res.clearCookie(sessionCookieName, { path: '/', httpOnly: true, sameSite: 'lax', secure: services.env.NODE_ENV === 'production' });
       clearCsrfCookie(res, services.env);
+    },
+  }),
+
+  defineRoute({
+    method: 'get',
+    path: '/api/auth/session',
+    permission: 'public',
+    summary: 'Who is signed in, or null — answers 200 either way, so a signed-out start-up is not an error',
+    response: SessionDto,
+    handler: async ({ req, services }) => {
+      const userId = req.session?.userId;
+      if (!userId) return { me: null };
+      try {
+        const me = await withScope(services.db, { tenantId: null, userId }, (trx) => buildMe(trx, userId, req.session.organisationId ?? null));
+        if (req.session.organisationId !== me.organisation.id) req.session.organisationId = me.organisation.id;
+        return { me };
+      } catch (error) {
+        // A session whose user lost every membership (or was disabled) counts as signed out.
+        if (error instanceof AppError && error.status < 500) return { me: null };
+        throw error;
+      }
     },
   }),
 

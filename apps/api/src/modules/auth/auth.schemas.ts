@@ -21,3 +21,6 @@ export const MeDto = z.object({
 });
 
 export type Me = z.input<typeof MeDto>;
+
+/** `GET /api/auth/session`: the same `Me`, or null when nobody is signed in. */
+export const SessionDto = z.object({ me: MeDto.nullable() });

@@ -66,7 +66,7 @@ describe('errorInterceptor', () => {
     const auth = TestBed.inject(Auth);
     const restored = auth.restore();
     http.expectOne('/api/auth/csrf').flush(null, { status: 204, statusText: 'No Content' });
-    http.expectOne('/api/me').flush(meAs('officer'));
+    http.expectOne('/api/auth/session').flush({ me: meAs('officer') });
     await restored;
 
     const result = firstValueFrom(client.get('/api/members')).catch((error: unknown) => error);

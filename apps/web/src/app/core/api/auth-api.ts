@@ -44,6 +44,11 @@ export class AuthApi {
     return this.http.get<Me>('/api/me', { context: handledByCaller() });
   }
 
+  /** Who is signed in, or `null`; answers 200 either way so a signed-out start is no error. */
+  session(): Observable<{ me: Me | null }> {
+    return this.http.get<{ me: Me | null }>('/api/auth/session', { context: handledByCaller() });
+  }
+
   login(credentials: Credentials): Observable<Me> {
     return this.http.post<Me>('/api/auth/login', credentials, { context: handledByCaller() });
   }

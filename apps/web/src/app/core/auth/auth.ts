@@ -22,8 +22,8 @@ export class Auth {
   }
 
   /**
-   * Runs once at start-up: fetches the CSRF cookie and asks who is signed in. A 401 (or an
-   * unreachable server) leaves the app signed out; the sign-in page then explains any problem.
+   * Runs once at start-up: fetches the CSRF cookie and asks who is signed in (a signed-out
+   * answer is a 200 with `me: null`, not an error). An unreachable server leaves the app signed out; the sign-in page then explains any problem.
    */
   async restore(): Promise<void> {
     const [, me] = await Promise.all([this.refreshCsrf(), this.fetchMe()]);
@@ -61,7 +61,7 @@ export class Auth {
 
   private async fetchMe(): Promise<Me | null> {
     try {
-      return await firstValueFrom(this.api.me());
+      return (await firstValueFrom(this.api.session())).me;
     } catch (error) {
       if (error instanceof HttpErrorResponse) return null;
       throw error;

@@ -22,9 +22,7 @@ describe('route guards', () => {
   async function restoreSession(me: Me | null): Promise<void> {
     const restored = TestBed.inject(Auth).restore();
     http.expectOne('/api/auth/csrf').flush(null, { status: 204, statusText: 'No Content' });
-    const probe = http.expectOne('/api/me');
-    if (me) probe.flush(me);
-    else probe.flush({ error: { code: 'unauthenticated', message: 'Sign in first.' } }, { status: 401, statusText: 'Unauthorized' });
+    http.expectOne('/api/auth/session').flush({ me });
     await restored;
   }
 

@@ -60,7 +60,7 @@ describe('Shell', () => {
   async function startSignedInAs(me: Me): Promise<{ fixture: ComponentFixture<Shell>; loader: HarnessLoader }> {
     const restored = TestBed.inject(Auth).restore();
     http.expectOne('/api/auth/csrf').flush(null, { status: 204, statusText: 'No Content' });
-    http.expectOne('/api/me').flush(me);
+    http.expectOne('/api/auth/session').flush({ me });
     await restored;
     const fixture = TestBed.createComponent(Shell);
     await settle(fixture);

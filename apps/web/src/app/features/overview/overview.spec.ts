@@ -12,7 +12,7 @@ describe('Overview', () => {
     const http = TestBed.inject(HttpTestingController);
     const restored = TestBed.inject(Auth).restore();
     http.expectOne('/api/auth/csrf').flush(null, { status: 204, statusText: 'No Content' });
-    http.expectOne('/api/me').flush(meAs(role));
+    http.expectOne('/api/auth/session').flush({ me: meAs(role) });
     await restored;
     const fixture = TestBed.createComponent(Overview);
     await fixture.whenStable();
