@@ -39,6 +39,8 @@ const EnvSchema = z
     WEB_DIST_DIR: z.string().min(1).default('dist/web/browser'),
     LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
     JSON_BODY_LIMIT: z.string().regex(/^\d+(b|kb|mb)$/i).default('100kb'),
+    // Largest stack data file an import accepts (bytes); larger uploads are answered 413.
+    IMPORT_MAX_BYTES: z.coerce.number().int().min(1024).default(50 * 1024 * 1024),
     LOGIN_RATE_LIMIT_MAX: z.coerce.number().int().min(1).default(10),
     LOGIN_RATE_LIMIT_WINDOW_MINUTES: z.coerce.number().positive().default(15),
     // Send HSTS and upgrade-insecure-requests (only meaningful behind TLS). Defaults to production.
