@@ -25,7 +25,7 @@ build_web_if_stale
 export FL_TEST_SUMMARY="$repo/.tmp/test-summary.txt"
 mkdir -p "$repo/.tmp"; rm -f "$FL_TEST_SUMMARY"
 set +e
-npx jest -c jest.config.cjs --ci "$@"
+npx jest -c jest.config.cjs --ci --maxWorkers=2 "$@"
 status=$?
 set -e
 echo

@@ -33,7 +33,7 @@ describe('signing in', () => {
     expect(await alert.innerText()).toContain('E-mail or password is wrong.');
     expect(new URL(w.page.url()).pathname).toBe('/sign-in');
     // The 401 of the failed sign-in is logged by Chromium as a failed resource; nothing else may be.
-    expect(w.consoleErrors.filter((e) => !/401/.test(e))).toEqual([]);
+    expect(w.consoleErrors.filter((e) => !/status of 401/.test(e))).toEqual([]);
     expect(w.externalRequests).toEqual([]);
     await w.context.close();
   });

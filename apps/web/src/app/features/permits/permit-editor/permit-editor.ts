@@ -1,0 +1,342 @@
+import { DecimalPipe } from '@angular/common';
+import { HttpEventType } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal } from '@angular/core';
+import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatPaginatorModule } from '@angular/material/paginator';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatSortModule } from '@angular/material/sort';
+import { MatTableModule } from '@angular/material/table';
+import { MatTooltipModule } from '@angular/material/tooltip';
+import { Router, RouterLink } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
+
+import { Limit, MAX_PERMIT_DOCUMENT_BYTES, PermitDetail, PermitInput, PermitsApi } from '../../../core/api/permits-api';
+import { SiteDetail, SitesApi } from '../../../core/api/sites-api';
+import { Auth } from '../../../core/auth/auth';
+import { ClientTable } from '../../../shared/client-table';
+import { ConflictNotice } from '../../../shared/conflict-notice';
+import { datesInOrder } from '../../../shared/date-range';
+import { classifySaveError, fieldError } from '../../../shared/form-errors';
+import { ReadOnlyField, ReadOnlyFields } from '../../../shared/read-only-fields';
+import { parameterLabels, periodLabels, unitLabel } from '../../../shared/setup-labels';
+import { HasUnsavedChanges, warnBeforeUnload } from '../../../shared/unsaved-changes';
+import { LimitDialog, LimitDialogData } from '../limit-dialog/limit-dialog';
+
+export interface LimitRow {
+  limit: Limit;
+  target: string;
+  pollutant: string;
+  elv: number;
+  elvText: string;
+  referenceO2: string;
+  period: string;
+  summary: string;
+}
+
+/** Why a chosen file cannot be the permit document, or null when it can. */
+export function permitFileProblem(file: File): string | null {
+  const looksPdf = file.type === 'application/pdf' || file.name.toLowerCase().endsWith('.pdf');
+  if (!looksPdf) return `“${file.name}” is not a PDF. Choose the permit as a PDF file.`;
+  if (file.size > MAX_PERMIT_DOCUMENT_BYTES) {
+    return `“${file.name}” is ${(file.size / 1024 / 1024).toFixed(1)} MB; the permit PDF may be at most ${MAX_PERMIT_DOCUMENT_BYTES / 1024 / 1024} MB.`;
+  }
+  return null;
+}
+
+/**
+ * A permit: its reference, authority and dates, its PDF, and the table of its emission limits,
+ * each with its plain-language summary. Limits and the PDF are added once the permit is saved.
+ */
+@Component({
+  selector: 'fl-permit-editor',
+  imports: [
+    DecimalPipe,
+    ReactiveFormsModule,
+    RouterLink,
+    MatFormFieldModule,
+    MatInputModule,
+    MatButtonModule,
+    MatIconModule,
+    MatTableModule,
+    MatSortModule,
+    MatPaginatorModule,
+    MatProgressBarModule,
+    MatTooltipModule,
+    ConflictNotice,
+    ReadOnlyFields,
+  ],
+  templateUrl: './permit-editor.html',
+  styleUrl: './permit-editor.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  host: { '(window:beforeunload)': 'onBeforeUnload($event)' },
+})
+export class PermitEditor implements HasUnsavedChanges {
+  private readonly permitsApi = inject(PermitsApi);
+  private readonly sitesApi = inject(SitesApi);
+  private readonly auth = inject(Auth);
+  private readonly router = inject(Router);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
+  private readonly fb = inject(NonNullableFormBuilder);
+
+  readonly siteId = input.required<string>();
+  /** Absent on …/permits/new. */
+  readonly permitId = input<string>();
+
+  protected readonly canEdit = computed(() => this.auth.me()?.permissions.includes('site:write') ?? false);
+  protected readonly fieldError = fieldError;
+
+  protected readonly form = this.fb.group(
+    {
+      reference: this.fb.control('', [Validators.required, Validators.maxLength(200)]),
+      authority: this.fb.control('', [Validators.required, Validators.maxLength(500)]),
+      effectiveFrom: this.fb.control('', Validators.required),
+      effectiveTo: this.fb.control(''),
+    },
+    { validators: datesInOrder('effectiveFrom', 'effectiveTo', 'Must not be before the effective-from date') },
+  );
+
+  protected readonly site = signal<SiteDetail | null>(null);
+  protected readonly permit = signal<PermitDetail | null>(null);
+  protected readonly status = signal<'loading' | 'ready' | 'failed'>('loading');
+  protected readonly saving = signal(false);
+  protected readonly conflict = signal(false);
+  protected readonly filter = signal('');
+  protected readonly upload = signal<{ fileName: string; percent: number } | null>(null);
+  protected readonly uploadProblem = signal<string | null>(null);
+
+  protected readonly hasTargets = computed(() => {
+    const site = this.site();
+    return Boolean(site && (site.stacks.length || site.units.length));
+  });
+
+  protected readonly readOnlyFields = computed<ReadOnlyField[]>(() => {
+    const permit = this.permit();
+    if (!permit) return [];
+    return [
+      { label: 'Reference', value: permit.reference },
+      { label: 'Authority', value: permit.authority },
+      { label: 'Effective from', value: permit.effectiveFrom },
+      { label: 'Effective to', value: permit.effectiveTo ?? 'Open-ended' },
+    ];
+  });
+
+  private readonly limitRows = computed<LimitRow[]>(() => {
+    const site = this.site();
+    const stacks = new Map((site?.stacks ?? []).map((stack) => [stack.id, stack.name]));
+    const units = new Map((site?.units ?? []).map((unit) => [unit.id, unit.name]));
+    return (this.permit()?.limits ?? [])
+      .filter((limit) => !limit.archivedAt)
+      .map((limit) => ({
+        limit,
+        target: limit.stackId ? `Stack: ${stacks.get(limit.stackId) ?? ''}` : `Unit: ${units.get(limit.unitId ?? '') ?? ''}`,
+        pollutant: parameterLabels[limit.pollutant],
+        elv: limit.elv,
+        elvText: `${limit.elv} ${unitLabel(limit.unit)}`,
+        referenceO2: limit.referenceO2Percent === null ? '' : `${limit.referenceO2Percent} % O2`,
+        period: periodLabels[limit.period],
+        summary: limit.summary,
+      }));
+  });
+
+  protected readonly limits = new ClientTable<LimitRow>({
+    rows: this.limitRows,
+    filter: this.filter,
+    text: (row) => [row.target, row.pollutant, row.elvText, row.period, row.summary].join(' '),
+    sortValue: (row, column) => (column === 'elv' ? row.elv : ((row as unknown as Record<string, string>)[column] ?? null)),
+    initialSort: { active: 'pollutant', direction: 'asc' },
+  });
+
+  protected readonly limitColumns = computed(() => {
+    const columns = ['target', 'pollutant', 'elv', 'period', 'summary'];
+    return this.canEdit() ? [...columns, 'actions'] : columns;
+  });
+
+  /** Dialogs still open when the page goes away close without a result; nothing to refresh then. */
+  private destroyed = false;
+
+  constructor() {
+    inject(DestroyRef).onDestroy(() => (this.destroyed = true));
+    effect(() => void this.load(this.siteId(), this.permitId()));
+  }
+
+  hasUnsavedChanges(): boolean {
+    return this.canEdit() && this.form.dirty && !this.saving();
+  }
+
+  protected onBeforeUnload(event: BeforeUnloadEvent): void {
+    warnBeforeUnload(event, this.hasUnsavedChanges());
+  }
+
+  protected reload(): Promise<void> {
+    return this.load(this.siteId(), this.permitId());
+  }
+
+  private async load(siteId: string, permitId: string | undefined): Promise<void> {
+    this.status.set('loading');
+    try {
+      const [site, permit] = await Promise.all([
+        firstValueFrom(this.sitesApi.getSite(siteId)),
+        permitId ? firstValueFrom(this.permitsApi.getPermit(permitId)) : Promise.resolve(null),
+      ]);
+      this.site.set(site);
+      this.permit.set(permit);
+      if (permit) {
+        this.form.reset({
+          reference: permit.reference,
+          authority: permit.authority,
+          effectiveFrom: permit.effectiveFrom,
+          effectiveTo: permit.effectiveTo ?? '',
+        });
+      }
+      this.conflict.set(false);
+      this.status.set('ready');
+    } catch {
+      this.status.set('failed');
+    }
+  }
+
+  protected async save(): Promise<void> {
+    if (this.form.invalid) {
+      this.form.markAllAsTouched();
+      return;
+    }
+    const value = this.form.getRawValue();
+    const body: PermitInput = {
+      reference: value.reference.trim(),
+      authority: value.authority.trim(),
+      effectiveFrom: value.effectiveFrom,
+      effectiveTo: value.effectiveTo || null,
+    };
+    this.saving.set(true);
+    try {
+      const current = this.permit();
+      if (current) {
+        const saved = await firstValueFrom(this.permitsApi.updatePermit(current.id, { ...body, version: current.version }));
+        this.permit.set({ ...current, ...saved });
+        this.form.markAsPristine();
+        this.snackBar.open('Permit saved.', 'Close', { duration: 5000 });
+      } else {
+        const created = await firstValueFrom(this.permitsApi.createPermit(this.siteId(), body));
+        this.form.markAsPristine();
+        this.snackBar.open(`Permit “${created.reference}” added. Now upload its PDF and enter its limits.`, 'Close', {
+          duration: 6000,
+        });
+        await this.router.navigate(['/sites', this.siteId(), 'permits', created.id], { replaceUrl: true });
+      }
+    } catch (error) {
+      if (classifySaveError(error, this.form) === 'stale') this.conflict.set(true);
+    } finally {
+      this.saving.set(false);
+    }
+  }
+
+  protected async archive(): Promise<void> {
+    const permit = this.permit();
+    if (!permit) return;
+    try {
+      await firstValueFrom(this.permitsApi.archivePermit(permit.id, permit.version));
+      this.form.markAsPristine();
+      this.snackBar.open(`Permit “${permit.reference}” archived. Its history is kept.`, 'Close', { duration: 5000 });
+      await this.router.navigate(['/sites', this.siteId()]);
+    } catch (error) {
+      if (classifySaveError(error) === 'stale') this.conflict.set(true);
+    }
+  }
+
+  protected documentUrl(): string {
+    const permit = this.permit();
+    return permit ? this.permitsApi.documentUrl(permit.id) : '';
+  }
+
+  protected onFileChosen(event: Event): void {
+    const inputElement = event.target as HTMLInputElement;
+    const file = inputElement.files?.[0];
+    inputElement.value = '';
+    if (file) this.uploadFile(file);
+  }
+
+  protected uploadFile(file: File): void {
+    const permit = this.permit();
+    if (!permit) return;
+    const problem = permitFileProblem(file);
+    this.uploadProblem.set(problem);
+    if (problem) return;
+    this.upload.set({ fileName: file.name, percent: 0 });
+    this.permitsApi.uploadDocument(permit.id, file).subscribe({
+      next: (event) => {
+        if (event.type === HttpEventType.UploadProgress) {
+          const percent = event.total ? Math.round((100 * event.loaded) / event.total) : 0;
+          this.upload.set({ fileName: file.name, percent });
+        } else if (event.type === HttpEventType.Response && event.body) {
+          const saved = event.body;
+          this.permit.update((current) => (current ? { ...current, ...saved, limits: current.limits } : current));
+          this.upload.set(null);
+          this.snackBar.open(`Permit PDF “${file.name}” uploaded.`, 'Close', { duration: 5000 });
+        }
+      },
+      // The error interceptor has shown why (not a PDF, too large …).
+      error: () => this.upload.set(null),
+    });
+  }
+
+  protected async openLimit(limit?: Limit): Promise<void> {
+    const permit = this.permit();
+    const site = this.site();
+    if (!permit || !site) return;
+    const ref = this.dialog.open<LimitDialog, LimitDialogData, Limit>(LimitDialog, {
+      data: { permitId: permit.id, site, permitEffectiveFrom: permit.effectiveFrom, limit },
+      width: '860px',
+      maxWidth: '95vw',
+    });
+    const saved = await firstValueFrom(ref.afterClosed());
+    if (!saved) {
+      // Closed without a limit: cancelled, or the dialog found the limit changed meanwhile.
+      if (limit && !this.destroyed) await this.refreshLimits();
+      return;
+    }
+    this.permit.update((current) =>
+      current
+        ? {
+            ...current,
+            limits: limit ? current.limits.map((existing) => (existing.id === saved.id ? saved : existing)) : [...current.limits, saved],
+          }
+        : current,
+    );
+    this.snackBar.open(`Limit saved: ${saved.summary}`, 'Close', { duration: 6000 });
+  }
+
+  protected async archiveLimit(limit: Limit): Promise<void> {
+    try {
+      const archived = await firstValueFrom(this.permitsApi.archiveLimit(limit.id, limit.version));
+      this.permit.update((current) =>
+        current ? { ...current, limits: current.limits.map((existing) => (existing.id === archived.id ? archived : existing)) } : current,
+      );
+      this.snackBar.open('Limit archived. It stays in the permit history.', 'Close', { duration: 5000 });
+    } catch (error) {
+      if (classifySaveError(error) === 'stale') await this.refreshLimits();
+    }
+  }
+
+  private async refreshLimits(): Promise<void> {
+    const permit = this.permit();
+    if (!permit) return;
+    const fresh = await firstValueFrom(this.permitsApi.getPermit(permit.id));
+    this.permit.update((current) => (current ? { ...current, limits: fresh.limits } : current));
+  }
+
+  protected onFilter(event: Event): void {
+    this.limits.pageIndex.set(0);
+    this.filter.set((event.target as HTMLInputElement).value);
+  }
+
+  protected limitName(row: LimitRow): string {
+    return `${row.pollutant} ${row.elvText}, ${row.period.toLowerCase()}`;
+  }
+}
