@@ -26,6 +26,16 @@ export const routes: Routes = [
         loadChildren: () => import('./features/sites/sites.routes').then((m) => m.siteRoutes),
       },
       {
+        path: 'imports',
+        canActivate: [permissionGuard('data:import')],
+        loadChildren: () => import('./features/imports/imports.routes').then((m) => m.importRoutes),
+      },
+      {
+        path: 'review',
+        canActivate: [permissionGuard('data:read')],
+        loadChildren: () => import('./features/review/review.routes').then((m) => m.reviewRoutes),
+      },
+      {
         path: 'members',
         title: 'Members · FlueLedger',
         canActivate: [permissionGuard('members:read')],

@@ -1,11 +1,10 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { Observable, map } from 'rxjs';
+import { Observable } from 'rxjs';
 
 import type { Limit } from './permits-api';
-import type { Channel, Stack } from './sites-api';
 
-// Shapes of .tmp/contract-import.md "Review"; apps/api/src/modules/review/*.schemas.ts is the source of truth.
+// Shapes of apps/api/src/modules/review/review.schemas.ts (the source of truth).
 
 /** Status of a reading as stored (the data logger's own or set by a correction). */
 export type ReadingStatus =
@@ -14,89 +13,154 @@ export type ReadingStatus =
 
 export type Verdict = 'compliant' | 'exceedance' | 'insufficient_data';
 
-/** An hour's (or a day's) value of a channel, in the channel's own unit and basis. */
-export interface ChannelPeriodValue {
+/** A channel as the review describes it (the set-up's Channel carries more). */
+export interface ReviewChannel {
+  id: string;
+  parameter: string;
+  unit: string;
+  basis: string;
+  conditions: string;
+  intervalMinutes: number;
+}
+
+/** An hour's value of a channel, in the channel's own unit and basis. */
+export interface ChannelHour {
   value: number | null;
   /** `valid`, `invalid`, `not_operating` … */
   status: string;
-  /** Share of the period covered by valid readings, 0–1. */
-  coverage: number;
+  /** Share of the hour covered by valid readings, 0–1. */
+  coverage: number | null;
+  reason: string | null;
 }
 
-/** An hour's (or a day's) value in the limit's unit, basis and reference O2. */
-export interface LimitPeriodValue {
+/** An hour's value in the limit's unit, basis and reference O2. */
+export interface LimitHour {
   value: number | null;
   status: string;
+  reason: string | null;
+  o2PercentDry: number | null;
+  massKgPerHour: number | null;
 }
 
-export interface ReviewPeriodRow {
-  /** ISO 8601 UTC instant the hour (or the local day) starts. */
+export interface ReviewHour {
+  /** ISO 8601 UTC instant the hour starts. */
   hourStart: string;
-  channels: Record<string, ChannelPeriodValue>;
-  limits: Record<string, LimitPeriodValue>;
+  channels: Record<string, ChannelHour>;
+  limits: Record<string, LimitHour>;
 }
 
-export interface ReviewExceedance {
+export interface ReviewDay {
+  /** The site's local midnights that bound the day, as UTC instants. */
+  dayStart: string;
+  dayEnd: string;
+  channels: Record<string, { value: number | null; status: string; coverage: number | null; validHours: number; invalidHours: number }>;
+  /** `validatedValue` is the daily value after the confidence interval is subtracted, where the limit asks for it. */
+  limits: Record<string, { value: number | null; validatedValue: number | null; status: string; validHours: number; invalidHours: number }>;
+}
+
+/** A run of periods above the ELV (an exceedance) or above the near-miss share of it. */
+export interface ReviewEvent {
   start: string;
   end: string;
   peak: number;
+  peakAt: string;
   percentOfElv: number;
+  threshold: number;
+  periodCount: number;
 }
 
 export interface ReviewHeadroom {
+  asOf: string;
+  periodStart: string;
+  periodEnd: string;
   remainingHours: number;
+  averageSoFar: number | null;
   /** The highest average the rest of the period may have for the limit still to be met, in the limit's unit. */
   maxAverageToStayCompliant: number | null;
   exceedanceCertain: boolean;
+  periodsAboveAllowedRemaining: number | null;
+  note: string | null;
 }
 
 export interface ReviewLimit {
   limit: Limit;
+  /** The channel the limit is judged on, when the stack has one for its pollutant. */
+  channelId: string | null;
   verdict: Verdict;
+  /** Why the verdict is what it is, in a sentence. */
+  note: string;
+  threshold: number;
   availabilityPercent: number | null;
+  validHours: number;
+  invalidHours: number;
   invalidDays: number;
-  exceedances: ReviewExceedance[];
-  /** Periods above the near-miss share of the ELV but not above it (a count or a list). */
-  nearMisses: number | unknown[];
+  exceedances: ReviewEvent[];
+  nearMisses: ReviewEvent[];
+  share: { required: number; achieved: number | null; validPeriods: number; periodsAbove: number; allowedAbove: number } | null;
   headroom: ReviewHeadroom | null;
 }
 
 export interface PlausibilityFlag {
   hourStart: string;
-  expectedCo2PercentDry: number | null;
-  measuredCo2PercentDry: number | null;
-  deviationPercent: number | null;
+  o2PercentDry: number;
+  expectedCo2PercentDry: number;
+  measuredCo2PercentDry: number;
+  deviationPercent: number;
 }
 
 export interface Review {
-  stack: Stack;
+  stack: { id: string; name: string; siteId: string; siteName: string };
   from: string;
   to: string;
   /** The site's IANA time zone: days and months follow its calendar. */
   timeZone: string;
-  channels: Channel[];
-  hourly: ReviewPeriodRow[];
-  daily: ReviewPeriodRow[];
+  channels: ReviewChannel[];
+  hourly: ReviewHour[];
+  daily: ReviewDay[];
   limits: ReviewLimit[];
   plausibility: PlausibilityFlag[];
+  plausibilityCheck: { co2MaxPercentDry: number | null; tolerancePercent: number; hoursChecked: number; note: string | null };
+  computedAt: string | null;
+  disclaimer: string;
 }
 
-/** A stored reading with the import that brought it (raw rows stay; corrections supersede). */
+/** A stored reading (raw rows stay; corrections supersede them). */
 export interface RawReading {
-  id: number | string;
-  channelId?: string;
+  id: string;
   t: string;
   value: number | null;
   status: ReadingStatus | string;
+  current: boolean;
   importId: string | null;
-  /** The import's file name, when the API includes it. */
-  importFileName?: string | null;
-  createdAt?: string;
-  createdBy?: string | null;
-  createdByName?: string | null;
+  createdBy: string | null;
+  createdAt: string;
   supersededAt: string | null;
-  supersededBy?: number | string | null;
+  supersededBy: string | null;
   reason: string | null;
+}
+
+export interface ReadingsImport {
+  id: string;
+  fileName: string;
+  sha256: string;
+  state: string;
+  uploadedAt: string;
+  uploadedBy: string;
+  committedAt: string | null;
+  rolledBackAt: string | null;
+}
+
+export interface Readings {
+  channel: { id: string; stackId: string; parameter: string; unit: string; basis: string; intervalMinutes: number };
+  from: string;
+  to: string;
+  includeSuperseded: boolean;
+  items: RawReading[];
+  /** True when the API cut the list short. */
+  truncated: boolean;
+  /** The imports that brought the readings listed. */
+  imports: ReadingsImport[];
+  hours: { hourStart: string; value: number | null; status: string; coverage: number; reason: string | null; readingsValid: number; readingsTotal: number }[];
 }
 
 export interface ReadingsQuery {
@@ -117,27 +181,40 @@ export interface CorrectionBody {
   reason: string;
 }
 
+export interface CorrectionResult {
+  channelId: string;
+  action: CorrectionAction;
+  from: string;
+  to: string;
+  reason: string;
+  valuePerReading: number | null;
+  superseded: number;
+  inserted: number;
+  hoursRecomputed: number;
+}
+
 /** Hourly results, verdicts and raw readings of a stack (`data:read`), and corrections (`data:correct`). */
 @Injectable({ providedIn: 'root' })
 export class ReviewApi {
   private readonly http = inject(HttpClient);
 
-  /** `from`/`to` as ISO 8601 instants (from inclusive, to exclusive). */
-  review(stackId: string, from: string, to: string): Observable<Review> {
-    const params = new HttpParams().set('from', from).set('to', to);
+  /**
+   * `from`/`to` as ISO 8601 instants (from inclusive, to exclusive). Without them the API answers
+   * with the site's calendar month that holds the latest data.
+   */
+  review(stackId: string, range?: { from: string; to: string }): Observable<Review> {
+    const params = range ? new HttpParams().set('from', range.from).set('to', range.to) : undefined;
     return this.http.get<Review>(`/api/stacks/${stackId}/review`, { params });
   }
 
-  /** Raw readings of a channel, oldest first (accepts a bare array or a `{ items }` page). */
-  readings(channelId: string, query: ReadingsQuery): Observable<RawReading[]> {
+  /** Raw readings of a channel, oldest first, with the imports that brought them. */
+  readings(channelId: string, query: ReadingsQuery): Observable<Readings> {
     let params = new HttpParams().set('from', query.from).set('to', query.to);
     if (query.includeSuperseded) params = params.set('includeSuperseded', 'true');
-    return this.http
-      .get<{ items: RawReading[] } | RawReading[]>(`/api/channels/${channelId}/readings`, { params })
-      .pipe(map((body) => (Array.isArray(body) ? body : body.items)));
+    return this.http.get<Readings>(`/api/channels/${channelId}/readings`, { params });
   }
 
-  correct(channelId: string, body: CorrectionBody): Observable<unknown> {
-    return this.http.post<unknown>(`/api/channels/${channelId}/corrections`, body);
+  correct(channelId: string, body: CorrectionBody): Observable<CorrectionResult> {
+    return this.http.post<CorrectionResult>(`/api/channels/${channelId}/corrections`, body);
   }
 }

@@ -19,6 +19,8 @@ export interface NavItem {
 export const defaultNavItems: readonly NavItem[] = [
   { path: '/overview', label: 'Overview', icon: 'home' },
   { path: '/sites', label: 'Sites', icon: 'factory', permission: 'site:read' },
+  { path: '/review', label: 'Data review', icon: 'monitoring', permission: 'data:read' },
+  { path: '/imports', label: 'Import', icon: 'upload_file', permission: 'data:import' },
   { path: '/members', label: 'Members', icon: 'group', permission: 'members:read' },
   { path: '/audit-log', label: 'Audit log', icon: 'history', permission: 'audit:read' },
 ];

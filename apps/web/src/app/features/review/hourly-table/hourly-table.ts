@@ -1,0 +1,72 @@
+import { ChangeDetectionStrategy, Component, computed, input, output, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatPaginatorModule } from '@angular/material/paginator';
+import { MatTableModule } from '@angular/material/table';
+
+import type { Review, ReviewHour } from '../../../core/api/review-api';
+import { ClientTable } from '../../../shared/client-table';
+import { formatNumber } from '../../../shared/format-number';
+import { unitLabel } from '../../../shared/setup-labels';
+import { formatZoned } from '../../../shared/time/zoned-time';
+
+const statusLabels: Record<string, string> = {
+  valid: 'Valid',
+  invalid: 'Not valid',
+  not_operating: 'Not operating',
+  insufficient_data: 'Too few readings',
+  substituted: 'Substituted',
+  invalidated: 'Marked invalid',
+  calibration: 'Calibration',
+  maintenance: 'Maintenance',
+  fault: 'Analyser fault',
+  out_of_range: 'Out of range',
+  startup_shutdown: 'Start-up or shut-down',
+};
+
+export function statusLabel(status: string | null | undefined): string {
+  if (!status) return '—';
+  return statusLabels[status] ?? status.replace(/_/g, ' ');
+}
+
+/** The hourly values of one channel with their status and coverage, and the corrected values of its limits. */
+@Component({
+  selector: 'fl-hourly-table',
+  imports: [MatButtonModule, MatPaginatorModule, MatTableModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './hourly-table.html',
+  styleUrl: './hourly-table.scss',
+})
+export class HourlyTable {
+  readonly review = input.required<Review>();
+  readonly channelId = input.required<string>();
+  readonly drill = output<string>();
+
+  protected readonly formatZoned = formatZoned;
+  protected readonly formatNumber = formatNumber;
+  protected readonly statusLabel = statusLabel;
+
+  protected readonly channel = computed(() => this.review().channels.find((c) => c.id === this.channelId()) ?? null);
+  /** The limits judged on this channel: their corrected hourly values sit beside the measured one. */
+  protected readonly limits = computed(() =>
+    this.review()
+      .limits.filter((entry) => entry.channelId === this.channelId())
+      .map((entry) => entry.limit),
+  );
+  protected readonly columns = computed(() => ['hour', 'value', 'status', 'coverage', ...this.limits().map((l) => `limit-${l.id}`), 'drill']);
+  protected readonly unitLabel = unitLabel;
+
+  protected readonly table = new ClientTable<ReviewHour>({
+    rows: computed(() => this.review().hourly),
+    filter: signal(''),
+    text: (row) => row.hourStart,
+    sortValue: (row) => row.hourStart,
+    pageSize: 24,
+  });
+
+  protected readonly pageSizeOptions = [24, 48, 168];
+
+  protected coverageText(row: ReviewHour): string {
+    const coverage = row.channels[this.channelId()]?.coverage;
+    return coverage === null || coverage === undefined ? '—' : `${formatNumber(coverage * 100, 0)} %`;
+  }
+}

@@ -1,0 +1,185 @@
+// The date adapter ships as an ES module jest does not transform; the chart's axis is not under test here.
+jest.mock('chartjs-adapter-date-fns', () => ({}));
+
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, TestRequest, provideHttpClientTesting } from '@angular/common/http/testing';
+import { signal } from '@angular/core';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { HarnessLoader } from '@angular/cdk/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { MatButtonHarness } from '@angular/material/button/testing';
+import { MatInputHarness } from '@angular/material/input/testing';
+import { MatRadioGroupHarness } from '@angular/material/radio/testing';
+import { MatTableHarness } from '@angular/material/table/testing';
+import { provideRouter } from '@angular/router';
+import { provideCharts, withDefaultRegisterables } from 'ng2-charts';
+
+import { Me, Role } from '../../../core/api/auth-api';
+import { RawReading } from '../../../core/api/review-api';
+import { Auth } from '../../../core/auth/auth';
+import { meAs } from '../../../testing/me-fixtures';
+import { readingsFixture, reviewFixture, site, stack } from '../testing/review-fixtures';
+import { ReviewPage } from './review-page';
+
+async function settle(fixture: ComponentFixture<unknown>): Promise<void> {
+  await new Promise((resolve) => setTimeout(resolve, 0));
+  await fixture.whenStable();
+}
+
+function text(fixture: ComponentFixture<unknown>): string {
+  return ((fixture.nativeElement as HTMLElement).textContent ?? '').replace(/\s+/g, ' ');
+}
+
+const reading = (id: string, t: string, value: number): RawReading => ({
+  id, t, value, status: 'valid', current: true, importId: 'imp-1', createdBy: 'user-officer', createdAt: '2026-12-01T08:04:00Z',
+  supersededAt: null, supersededBy: null, reason: null,
+});
+const readings = readingsFixture([reading('1', '2026-10-31T23:01:00Z', 58.2), reading('2', '2026-10-31T23:02:00Z', 61.9)]);
+
+describe('ReviewPage', () => {
+  let fixture: ComponentFixture<ReviewPage>;
+  let loader: HarnessLoader;
+  let http: HttpTestingController;
+
+  beforeAll(() => {
+    // jsdom has no canvas: Chart.js gets no context and draws nothing, which is fine here.
+    jest.spyOn(HTMLCanvasElement.prototype, 'getContext').mockReturnValue(null);
+    jest.spyOn(console, 'error').mockImplementation((...args: unknown[]) => {
+      if (String(args[0]).includes('Failed to create chart')) return;
+      throw new Error(args.map(String).join(' '));
+    });
+  });
+  afterAll(() => jest.restoreAllMocks());
+
+  async function open(role: Role, month: string | undefined): Promise<void> {
+    const me: Me = meAs(role);
+    TestBed.configureTestingModule({
+      providers: [
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideCharts(withDefaultRegisterables()),
+        { provide: Auth, useValue: { me: signal(me), can: (permission: string) => me.permissions.includes(permission) } },
+      ],
+    });
+    http = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(ReviewPage);
+    fixture.componentRef.setInput('stackId', 'stack-b2');
+    if (month) fixture.componentRef.setInput('month', month);
+    loader = TestbedHarnessEnvironment.loader(fixture);
+    await settle(fixture);
+
+    http.expectOne('/api/stacks/stack-b2').flush(stack);
+    await settle(fixture);
+    http.match('/api/sites/site-1').forEach((request) => request.flush({ ...site, units: [], stacks: [stack], fuels: [], counts: {} }));
+    http.match((request) => request.url === '/api/sites').forEach((request) => request.flush({ items: [site], total: 1 }));
+    await settle(fixture);
+    http.match('/api/sites/site-1').forEach((request) => request.flush({ ...site, units: [], stacks: [stack], fuels: [], counts: {} }));
+    await settle(fixture);
+  }
+
+  function reviewRequest(): TestRequest {
+    return http.expectOne((request) => request.url === '/api/stacks/stack-b2/review');
+  }
+
+  afterEach(() => http.verify());
+
+  it('asks for the month of the site calendar and shows each limit with its verdict and availability', async () => {
+    await open('officer', '2026-11');
+    const request = reviewRequest();
+    // November in Europe/Berlin (UTC+1) starts at 23:00 UTC on 31 October.
+    expect(request.request.params.get('from')).toBe('2026-10-31T23:00:00.000Z');
+    expect(request.request.params.get('to')).toBe('2026-11-30T23:00:00.000Z');
+    request.flush(reviewFixture());
+    await settle(fixture);
+
+    const page = text(fixture);
+    expect(page).toContain('Exceedance');
+    expect(page).toContain('NOx ≤ 100 mg/Nm3, dry, 3 % O2, daily average');
+    expect(page).toMatch(/Data availability\s*97\.9 %/);
+    expect(page).toContain('peak 121.5 mg/Nm3 (122 % of the ELV)');
+    expect(page).toContain('measured 9.1 % CO2, expected 10.6 %');
+    expect(page).toContain('support, and do not replace');
+
+    const hourly = await loader.getHarness(MatTableHarness.with({ selector: '[aria-label="Hourly values"]' }));
+    const cells = await hourly.getCellTextByColumnName();
+    expect(cells['hour'].text[0]).toMatch(/1 Nov 2026, 00:00/);
+    expect(cells['status'].text[5]).toBe('Not valid');
+    expect(cells['coverage'].text[5]).toBe('20 %');
+  });
+
+  it('lets the API pick the latest month with data when the URL names none, and shows that month', async () => {
+    await open('officer', undefined);
+    const request = reviewRequest();
+    expect(request.request.params.keys()).toEqual([]);
+    request.flush(reviewFixture());
+    await settle(fixture);
+
+    expect(await (await loader.getHarness(MatInputHarness.with({ selector: '[type="month"]' }))).getValue()).toBe('2026-11');
+    expect(text(fixture)).toContain('November 2026');
+
+    await (await loader.getHarness(MatButtonHarness.with({ selector: '[aria-label="Previous month"]' }))).click();
+    const previous = reviewRequest();
+    // October in Europe/Berlin: summer time until the 25th, so it starts at 22:00 UTC.
+    expect(previous.request.params.get('from')).toBe('2026-09-30T22:00:00.000Z');
+    expect(previous.request.params.get('to')).toBe('2026-10-31T23:00:00.000Z');
+    previous.flush(reviewFixture({ from: '2026-09-30T22:00:00.000Z', to: '2026-10-31T23:00:00.000Z', hourly: [], daily: [] }));
+    await settle(fixture);
+    expect(text(fixture)).toContain('No readings are stored for this stack in October 2026.');
+  });
+
+  async function drillIntoFirstHour(): Promise<void> {
+    reviewRequest().flush(reviewFixture());
+    await settle(fixture);
+    const buttons = await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Readings' }));
+    await buttons[0].click();
+    const request = http.expectOne((r) => r.url === '/api/channels/ch-nox/readings');
+    expect(request.request.params.get('from')).toBe('2026-10-31T23:00:00.000Z');
+    expect(request.request.params.get('to')).toBe('2026-11-01T00:00:00.000Z');
+    expect(request.request.params.get('includeSuperseded')).toBe('true');
+    request.flush(readings);
+    await settle(fixture);
+  }
+
+  it('lets the auditor read the raw readings and their import, with no correction controls', async () => {
+    await open('auditor', '2026-11');
+    await drillIntoFirstHour();
+
+    const raw = await loader.getHarness(MatTableHarness.with({ selector: '[aria-label="Raw readings of the hour"]' }));
+    const cells = await raw.getCellTextByColumnName();
+    expect(cells['value'].text).toEqual(['58.2', '61.9']);
+    expect(cells['import'].text[0]).toBe('boiler2-2026-11.xlsx');
+
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Apply correction' }))).toHaveLength(0);
+    expect(await loader.getAllHarnesses(MatRadioGroupHarness)).toHaveLength(0);
+    expect(text(fixture)).not.toContain('Reason for the correction');
+  });
+
+  it('lets the officer substitute a value for the hour, with a reason', async () => {
+    await open('officer', '2026-11');
+    await drillIntoFirstHour();
+
+    await (await loader.getHarness(MatRadioGroupHarness)).checkRadioButton({ label: 'Substitute a value' });
+    await (await loader.getHarness(MatInputHarness.with({ selector: '[formcontrolname="value"]' }))).setValue('64,5');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Apply correction' }))).click();
+    // No reason: nothing is sent.
+    http.expectNone('/api/channels/ch-nox/corrections');
+
+    await (await loader.getHarness(MatInputHarness.with({ selector: 'textarea' }))).setValue('Analyser calibration drift, value from the parallel monitor');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Apply correction' }))).click();
+    const correction = http.expectOne({ method: 'POST', url: '/api/channels/ch-nox/corrections' });
+    expect(correction.request.body).toEqual({
+      from: '2026-10-31T23:00:00.000Z',
+      to: '2026-11-01T00:00:00.000Z',
+      action: 'substitute',
+      valuePerReading: 64.5,
+      reason: 'Analyser calibration drift, value from the parallel monitor',
+    });
+    correction.flush({ superseded: 60 });
+    await settle(fixture);
+    // The readings and the month are fetched again, now with the correction.
+    http.expectOne((r) => r.url === '/api/channels/ch-nox/readings').flush(readings);
+    reviewRequest().flush(reviewFixture());
+    await settle(fixture);
+  });
+});

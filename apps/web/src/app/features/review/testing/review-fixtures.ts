@@ -1,0 +1,134 @@
+import type { Limit } from '../../../core/api/permits-api';
+import type { Readings, Review, ReviewHour } from '../../../core/api/review-api';
+import type { Site, StackWithChannels } from '../../../core/api/sites-api';
+import { noxChannel, o2Channel } from '../../imports/testing/import-fixtures';
+
+/* An invented site and stack with made-up values, for tests. */
+
+export const site: Site = {
+  id: 'site-1',
+  name: 'Harrowgate Works',
+  timeZone: 'Europe/Berlin',
+  country: 'DE',
+  regime: 'eu_ied',
+  address: null,
+  archivedAt: null,
+  version: 1,
+  createdAt: '2026-10-01T00:00:00Z',
+  updatedAt: '2026-10-01T00:00:00Z',
+};
+
+export const stack: StackWithChannels = {
+  id: 'stack-b2',
+  siteId: 'site-1',
+  name: 'Boiler 2 stack',
+  heightM: 45,
+  diameterM: 1.8,
+  unitIds: ['unit-b2'],
+  channels: [noxChannel, o2Channel],
+  archivedAt: null,
+  version: 1,
+  createdAt: '2026-10-01T00:00:00Z',
+  updatedAt: '2026-10-01T00:00:00Z',
+};
+
+export const noxLimit: Limit = {
+  id: 'lim-nox-day',
+  permitId: 'permit-1',
+  stackId: 'stack-b2',
+  unitId: null,
+  pollutant: 'NOx',
+  elv: 100,
+  unit: 'mg/Nm3',
+  referenceO2Percent: 3,
+  ambientO2Percent: 21,
+  basis: 'dry',
+  period: 'day',
+  periodLength: null,
+  operatingPeriodsOnly: true,
+  criterion: { type: 'every_period', factor: 1.1 },
+  confidenceIntervalPercent: 20,
+  nearMissPercent: 90,
+  correctOnlyWhenAbove: false,
+  excludeStatuses: [],
+  minValidHoursPerDay: null,
+  minData: null,
+  effectiveFrom: '2026-01-01',
+  effectiveTo: null,
+  summary: 'NOx ≤ 100 mg/Nm3, dry, 3 % O2, daily average',
+  archivedAt: null,
+  version: 1,
+  createdAt: '2026-10-01T00:00:00Z',
+  updatedAt: '2026-10-01T00:00:00Z',
+};
+
+function hour(index: number): ReviewHour {
+  const hourStart = new Date(Date.parse('2026-10-31T23:00:00Z') + index * 3_600_000).toISOString();
+  const invalid = index === 5;
+  return {
+    hourStart,
+    channels: {
+      'ch-nox': { value: invalid ? null : 60 + index, status: invalid ? 'invalid' : 'valid', coverage: invalid ? 0.2 : 1, reason: null },
+      'ch-o2': { value: 3.2, status: 'valid', coverage: 1, reason: null },
+    },
+    limits: {
+      'lim-nox-day': { value: invalid ? null : 61 + index, status: invalid ? 'invalid' : 'valid', reason: null, o2PercentDry: 3.2, massKgPerHour: null },
+    },
+  };
+}
+
+const dayLimit = (value: number) => ({ 'lim-nox-day': { value, validatedValue: value * 0.8, status: 'valid', validHours: 24, invalidHours: 0 } });
+
+const event = (start: string, end: string, peak: number) => ({ start, end, peak, peakAt: start, percentOfElv: peak, threshold: 100, periodCount: 1 });
+
+export function reviewFixture(overrides: Partial<Review> = {}): Review {
+  return {
+    stack: { id: stack.id, name: stack.name, siteId: site.id, siteName: site.name },
+    from: '2026-10-31T23:00:00.000Z',
+    to: '2026-11-30T23:00:00.000Z',
+    timeZone: 'Europe/Berlin',
+    channels: [noxChannel, o2Channel].map(({ id, parameter, unit, basis, conditions, intervalMinutes }) => ({ id, parameter, unit, basis, conditions, intervalMinutes })),
+    hourly: Array.from({ length: 48 }, (_, i) => hour(i)),
+    daily: [
+      { dayStart: '2026-10-31T23:00:00.000Z', dayEnd: '2026-11-01T23:00:00.000Z', channels: {}, limits: dayLimit(72.4) },
+      { dayStart: '2026-11-01T23:00:00.000Z', dayEnd: '2026-11-02T23:00:00.000Z', channels: {}, limits: dayLimit(121.5) },
+    ],
+    limits: [
+      {
+        limit: noxLimit,
+        channelId: 'ch-nox',
+        verdict: 'exceedance',
+        note: 'One daily average above 110 % of the ELV.',
+        threshold: 110,
+        availabilityPercent: 97.9,
+        validHours: 47,
+        invalidHours: 1,
+        invalidDays: 0,
+        exceedances: [event('2026-11-01T23:00:00.000Z', '2026-11-02T23:00:00.000Z', 121.5)],
+        nearMisses: [event('2026-10-31T23:00:00.000Z', '2026-11-01T23:00:00.000Z', 96.1)],
+        share: null,
+        headroom: null,
+      },
+    ],
+    plausibility: [{ hourStart: '2026-11-01T04:00:00.000Z', o2PercentDry: 3.1, expectedCo2PercentDry: 10.6, measuredCo2PercentDry: 9.1, deviationPercent: -14.2 }],
+    plausibilityCheck: { co2MaxPercentDry: 11.7, tolerancePercent: 10, hoursChecked: 47, note: null },
+    computedAt: '2026-12-01T08:05:00Z',
+    disclaimer: 'Figures support, not replace, regulatory reporting.',
+    ...overrides,
+  };
+}
+
+export function readingsFixture(items: Readings['items']): Readings {
+  return {
+    channel: { id: 'ch-nox', stackId: 'stack-b2', parameter: 'NOx', unit: 'mg/Nm3', basis: 'dry', intervalMinutes: 1 },
+    from: '2026-10-31T23:00:00.000Z',
+    to: '2026-11-01T00:00:00.000Z',
+    includeSuperseded: true,
+    items,
+    truncated: false,
+    imports: [
+      { id: 'imp-1', fileName: 'boiler2-2026-11.xlsx', sha256: 'ab'.repeat(32), state: 'committed', uploadedAt: '2026-12-01T08:00:00Z', uploadedBy: 'user-officer', committedAt: '2026-12-01T08:04:00Z', rolledBackAt: null },
+    ],
+    hours: [],
+  };
+}
