@@ -6,5 +6,8 @@ module.exports = {
     '<rootDir>/apps/web/jest.config.cjs',
     '<rootDir>/test/jest.config.cjs',
   ],
+  // A global option (ignored inside projects): API fixtures hash passwords with argon2 and the
+  // browser suites start Chromium, both slow on a loaded 2-core machine.
+  testTimeout: 90_000,
   reporters: ['default', '<rootDir>/test/summary-reporter.cjs'],
 };

@@ -3,9 +3,6 @@
  * browser download), a page that records console errors (CSP violations included) and any
  * request to a host outside loopback, and sign-in as a demo user.
  */
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 
 export const DEMO_PASSWORD = 'flueledger-demo';
@@ -33,13 +30,13 @@ export interface BrowserSession {
 const LOOPBACK = /^(https?|wss?):\/\/(127\.\d+\.\d+\.\d+|localhost|\[::1\])(:\d+)?\//;
 
 export async function launch(): Promise<BrowserSession> {
-  const userDataDir = mkdtempSync(join(tmpdir(), 'fl-e2e-'));
+  // chromium.launch() already gives every run a fresh, temporary profile; playwright-core 1.65
+  // refuses a --user-data-dir argument (that is launchPersistentContext's job).
   const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
     args: [
       '--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run',
       '--disable-background-networking', '--disable-component-update', '--disable-sync',
-      `--user-data-dir=${userDataDir}`,
     ],
   });
   return {
@@ -61,7 +58,6 @@ export async function launch(): Promise<BrowserSession> {
     },
     async close() {
       await browser.close();
-      rmSync(userDataDir, { recursive: true, force: true });
     },
   };
 }

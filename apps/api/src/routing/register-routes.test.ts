@@ -38,7 +38,7 @@ describe('the registered API routes', () => {
 
   it('keeps public routes to the known few', () => {
     const publicRoutes = routes.filter((r) => r.permission === 'public').map((r) => `${r.method} ${r.path}`);
-    expect(publicRoutes.sort()).toEqual(['GET /api/auth/csrf', 'GET /api/health', 'POST /api/auth/login', 'POST /api/auth/logout']);
+    expect(publicRoutes.sort()).toEqual(['GET /api/auth/csrf', 'GET /api/auth/session', 'GET /api/health', 'POST /api/auth/login', 'POST /api/auth/logout']);
   });
 
   it('lets only sign-in, sign-out and the switcher mutate without a tenant permission', () => {
