@@ -1,0 +1,48 @@
+/**
+ * Shared rules of the readings store (apps/api migrations 20261203000200): month partitions and
+ * the per-stack write lock. Every writer of readings (imports, corrections) uses both.
+ */
+import type { Knex } from 'knex';
+
+export type Db = Knex | Knex.Transaction;
+
+/** Month-partitioned tables (see migration 20261203000100). */
+export type PartitionedTable = 'readings' | 'hourly_values' | 'limit_hourly_values';
+
+/** First day (UTC) of every calendar month touched by [fromMs, toMs). */
+export function monthsCovering(fromMs: number, toMs: number): string[] {
+  const months: string[] = [];
+  const start = new Date(fromMs);
+  let year = start.getUTCFullYear();
+  let month = start.getUTCMonth();
+  for (;;) {
+    const first = Date.UTC(year, month, 1);
+    if (first >= toMs && months.length > 0) break;
+    months.push(new Date(first).toISOString().slice(0, 10));
+    month++;
+    if (month === 12) [year, month] = [year + 1, 0];
+    if (months.length > 1200) throw new Error('span too long');
+  }
+  return months;
+}
+
+/**
+ * Makes sure the month partitions for [fromMs, toMs) exist. Call it in its own short transaction
+ * (or outside one) before the writing transaction: creating a partition locks the parent table,
+ * and a long import should not hold that lock while it loads.
+ */
+export async function ensureMonthPartitions(db: Db, table: PartitionedTable, fromMs: number, toMs: number): Promise<void> {
+  for (const month of monthsCovering(fromMs, toMs)) {
+    const exists = await db.raw('select to_regclass(?) as name', [`${table}_y${month.slice(0, 4)}m${month.slice(5, 7)}`]);
+    if (exists.rows[0]?.name) continue;
+    await db.raw('select ensure_month_partition(?, ?::date)', [table, month]);
+  }
+}
+
+/**
+ * Serialises writers of one stack's readings for the rest of the transaction (two imports of
+ * overlapping files, or an import and a correction, would otherwise both see a time as free).
+ */
+export async function lockStackReadings(trx: Knex.Transaction, stackId: string): Promise<void> {
+  await trx.raw("select pg_advisory_xact_lock(hashtextextended('readings:' || ?, 0))", [stackId]);
+}
