@@ -13,7 +13,7 @@ node --import tsx apps/api/src/cli/migrate.ts
 node --import tsx apps/api/src/cli/seed.ts
 build_web_if_stale
 
-export PORT="${PORT:-3000}" HOST="${HOST:-127.0.0.1}"
+export PORT="${PORT:-3000}" HOST="${HOST:-127.0.0.1}" LOG_LEVEL="${LOG_LEVEL:-warn}"
 cat <<TXT
 
 FlueLedger is running at http://$HOST:$PORT  (Ctrl-C stops it)
