@@ -39,6 +39,7 @@ import { ClientTable } from '../../../shared/client-table';
 import { ConflictNotice } from '../../../shared/conflict-notice';
 import { classifySaveError, fieldError } from '../../../shared/form-errors';
 import { ReadOnlyField, ReadOnlyFields } from '../../../shared/read-only-fields';
+import { formatNumber } from '../../../shared/format-number';
 import { fFactorSourceLabels, fuelKindLabels, fuelTypeLabels, kindOfFuelType } from '../../../shared/setup-labels';
 import { HasUnsavedChanges, warnBeforeUnload } from '../../../shared/unsaved-changes';
 import {
@@ -230,7 +231,13 @@ export class FuelEditor implements HasUnsavedChanges {
     ];
     if (!analysis) return fields;
     const gcv = analysis.gcvMJPerNm3 ?? analysis.gcvMJPerKg;
-    fields.push({ label: 'Gross calorific value', value: gcv === null ? 'Not measured' : `${gcv} ${fuel.kind === 'gas' ? 'MJ/Nm3' : 'MJ/kg'}` });
+    // A calculated GCV arrives at full double precision: show it as people read it, and say
+    // that it was calculated rather than measured.
+    const gcvText = `${formatNumber(gcv, 3)} ${fuel.kind === 'gas' ? 'MJ/Nm3' : 'MJ/kg'}`;
+    fields.push({
+      label: 'Gross calorific value',
+      value: gcv === null ? 'Not measured' : analysis.gcvSource === 'measured' ? gcvText : `${gcvText} (calculated from the analysis)`,
+    });
     fields.push({ label: 'F-factors', value: fFactorSourceLabels[analysis.fFactorSource] });
     if (analysis.composition) {
       for (const component of gasComponents) {
