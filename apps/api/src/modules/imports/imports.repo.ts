@@ -48,6 +48,11 @@ export interface StoredColumn {
   problems: number;
   suggestedChannelId: string | null;
   suggestionSource: string | null;
+  /**
+   * Readings the column brings when mapped (a number in a row with a time, or any cell of such a
+   * row whose status is not valid); absent on imports staged before it was recorded.
+   */
+  incoming?: number;
 }
 
 export interface MappingEntry {

@@ -94,9 +94,21 @@ function fileRejectedToAppError(error: FileRejected): AppError {
   return new AppError(error.status, error.code, error.message);
 }
 
+/** Per value column: the readings it brings (the rule of the commit's SQL, counted while the file is in hand). */
+function incomingPerColumn(parsed: ParsedFile): number[] {
+  const counts = parsed.values.map(() => 0);
+  for (let i = 0; i < parsed.rowCount; i++) {
+    if (!Number.isFinite(parsed.tUtcMs[i]!)) continue;
+    const valid = parsed.statuses[i] === 'valid';
+    for (let k = 0; k < parsed.values.length; k++) if (!valid || !Number.isNaN(parsed.values[k]![i]!)) counts[k]!++;
+  }
+  return counts;
+}
+
 function storedColumns(parsed: ParsedFile, suggestions: Suggestion[]): StoredColumn[] {
   const byIndex = new Map(suggestions.map((s) => [s.index, s]));
-  return parsed.columns.map((c) => ({
+  const incoming = incomingPerColumn(parsed);
+  return parsed.columns.map((c, k) => ({
     index: c.index,
     letter: c.letter,
     header: c.header,
@@ -109,6 +121,7 @@ function storedColumns(parsed: ParsedFile, suggestions: Suggestion[]): StoredCol
     problems: c.problems,
     suggestedChannelId: byIndex.get(c.index)?.channelId ?? null,
     suggestionSource: byIndex.get(c.index)?.source ?? null,
+    incoming: incoming[k]!,
   }));
 }
 
@@ -478,6 +491,16 @@ async function nothingStoredInSpan(ctx: ImportCtx, row: ImportRow, mapped: Mappe
   return result.rows[0].empty === true;
 }
 
+/** How many readings an import brings for the mapped channels (cells with a time, and a value or a non-valid status). */
+async function countIncoming(ctx: ImportCtx, row: ImportRow, mapped: MappedColumns): Promise<number> {
+  const result = await ctx.db.raw(
+    `select count(*) as n from import_rows s cross join unnest(?::int[]) as m(pos)
+     where s.tenant_id = ? and s.import_id = ? and s.t is not null and (s.vals[m.pos] is not null or s.status <> 'valid')`,
+    [mapped.positions, ctx.tenantId, row.id],
+  );
+  return Number(result.rows[0].n);
+}
+
 // ---- preview ------------------------------------------------------------------------------------
 
 const previewProblemLimit = 500;
@@ -628,28 +651,49 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
     await lockStackReadings(ctx.db, stack.id);
 
     // After the stack lock: no other writer can add readings to this span until we commit.
-    const incoming = incomingSql(ctx, current, mapped, await nothingStoredInSpan(ctx, current, mapped));
-    await ctx.db.raw(`create temp table import_incoming on commit drop as ${incoming.sql}`, incoming.bindings);
-    const classes = await ctx.db.raw('select cls, count(*) as n from import_incoming group by cls');
+    // Usually nothing is stored for these channels in the file's span yet: then every incoming
+    // value is new and goes straight from staging into readings (no comparison table).
+    const nothingStored = await nothingStoredInSpan(ctx, current, mapped);
     const counts = { new: 0, unchanged: 0, conflict: 0 };
-    for (const c of classes.rows as { cls: keyof typeof counts; n: string }[]) counts[c.cls] = Number(c.n);
+    if (nothingStored) {
+      const known = mapped.positions.map((pos) => current.columns[pos - 1]?.incoming);
+      counts.new = known.every((n) => n !== undefined) ? known.reduce<number>((sum, n) => sum + n!, 0) : await countIncoming(ctx, current, mapped);
+    } else {
+      const incoming = incomingSql(ctx, current, mapped);
+      await ctx.db.raw(`create temp table import_incoming on commit drop as ${incoming.sql}`, incoming.bindings);
+      const classes = await ctx.db.raw('select cls, count(*) as n from import_incoming group by cls');
+      for (const c of classes.rows as { cls: keyof typeof counts; n: string }[]) counts[c.cls] = Number(c.n);
+    }
     const totalIncoming = counts.new + counts.unchanged + counts.conflict;
     await writeProgress(deps, ctx, importId, { progress_phase: 'compared', progress_done: 0, progress_total: totalIncoming });
     await commitTestHooks.onPhase?.('staged', ctx.db);
 
     if (counts.conflict > 0 && !body.replaceConflicts) throw new ConflictsFound(counts.conflict);
 
-    // New readings, one channel at a time so progress moves.
+    // New readings, one channel at a time so progress moves. Channels in id order and times in
+    // order: the rows then reach the current-readings index in its own key order (tenant,
+    // channel, t), so its pages fill from left to right instead of splitting all over.
     let done = 0;
-    for (const channelId of mapped.channelIds) {
-      const inserted = await ctx.db.raw(
-        `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
-         select ?, channel_id, t, value, status, ?, ? from import_incoming where cls = 'new' and channel_id = ?`,
-        [ctx.tenantId, importId, ctx.userId, channelId],
-      );
+    const order = mapped.channelIds.map((channelId, k) => ({ channelId, position: mapped.positions[k]! })).sort((a, b) => (a.channelId < b.channelId ? -1 : 1));
+    for (const { channelId, position } of order) {
+      const inserted = nothingStored
+        ? await ctx.db.raw(
+            `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
+             select s.tenant_id, ?::uuid, s.t, s.vals[?], s.status, ?::uuid, ?::uuid from import_rows s
+             where s.tenant_id = ? and s.import_id = ? and s.t is not null and (s.vals[?] is not null or s.status <> 'valid')
+             order by s.t`,
+            [channelId, position, importId, ctx.userId, ctx.tenantId, importId, position],
+          )
+        : await ctx.db.raw(
+            `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
+             select ?, channel_id, t, value, status, ?, ? from import_incoming where cls = 'new' and channel_id = ? order by t`,
+            [ctx.tenantId, importId, ctx.userId, channelId],
+          );
       done += inserted.rowCount ?? 0;
       await writeProgress(deps, ctx, importId, { progress_phase: 'inserting', progress_done: done + counts.unchanged, progress_total: totalIncoming });
     }
+    // The statements' own counts are the record (the up-front count only drives progress).
+    if (nothingStored) counts.new = done;
 
     let superseded = 0;
     if (counts.conflict > 0) {

@@ -15,34 +15,12 @@ const iso = (ms: number) => new Date(ms).toISOString();
 /** Bindings with arrays holding nulls (node-postgres sends them as SQL arrays with NULL elements). */
 const arrays = (values: unknown[]): Knex.RawBinding[] => values as Knex.RawBinding[];
 
-/** First and last timestamp (UTC ms) of the channel's current readings; null without any. */
-export async function currentReadingSpan(scope: ResultsScope, channelId: string): Promise<{ first: number; last: number } | null> {
-  const { rows } = await scope.db.raw(
-    `select date_part('epoch', min(t)) * 1000 as first, date_part('epoch', max(t)) * 1000 as last
-       from readings where tenant_id = ? and channel_id = ? and superseded_at is null`,
-    [scope.tenantId, channelId],
-  );
-  const r = rows[0] as { first: number | null; last: number | null };
-  return r.first === null || r.last === null ? null : { first: r.first, last: r.last };
-}
+/** Stored reading status (1-based position in DB_READING_STATUSES, as SQL computes it). */
+const statusIndexSql = `array_position(array[${DB_READING_STATUSES.map((s) => `'${s}'`).join(',')}]::text[], r.status)`;
 
-/**
- * The channel's current readings in [fromMs, toMs) as engine columns. They come back as one JSON
- * document of three arrays (epoch ms, value, status index), which parses an order of magnitude
- * faster than a row object per reading (a month of one-minute data is 43,200 readings).
- */
-export async function loadCurrentReadings(scope: ResultsScope, channelId: string, fromMs: number, toMs: number): Promise<ReadingColumns> {
-  const statusIndex = `array_position(array[${DB_READING_STATUSES.map((s) => `'${s}'`).join(',')}]::text[], status)`;
-  const { rows } = await scope.db.raw(
-    `select json_build_object(
-              't', coalesce(array_agg(date_part('epoch', t) * 1000 order by t), '{}'),
-              'v', coalesce(array_agg(value order by t), '{}'),
-              's', coalesce(array_agg(${statusIndex} order by t), '{}'))::text as columns
-       from readings
-      where tenant_id = ? and channel_id = ? and superseded_at is null and t >= ? and t < ?`,
-    [scope.tenantId, channelId, iso(fromMs), iso(toMs)],
-  );
-  const packed = JSON.parse(rows[0].columns as string) as { t: number[]; v: (number | null)[]; s: number[] };
+type PackedReadings = { t: number[]; v: (number | null)[]; s: number[] };
+
+function unpackReadings(packed: PackedReadings): ReadingColumns {
   const n = packed.t.length;
   const t = Float64Array.from(packed.t);
   const value = new Float64Array(n);
@@ -53,6 +31,56 @@ export async function loadCurrentReadings(scope: ResultsScope, channelId: string
     status[i] = READING_STATUS_CODE[DB_READING_STATUSES[packed.s[i]! - 1] as DbReadingStatus];
   }
   return { t, value, status };
+}
+
+/**
+ * Current readings in [fromMs, toMs) of several channels in one statement, as engine columns by
+ * channel id (channels without readings are absent). Each channel's readings come back as one
+ * JSON document of three arrays (epoch ms, value, status index), which parses an order of
+ * magnitude faster than a row object per reading. The three arrays are built by the same
+ * aggregate step, so they stay aligned; they are not sorted (three sorts of 44,640 readings per
+ * channel cost more than the rest): the hourly aggregation takes readings in any order.
+ */
+export async function loadCurrentReadingsOf(scope: ResultsScope, channelIds: readonly string[], fromMs: number, toMs: number): Promise<Map<string, ReadingColumns>> {
+  const out = new Map<string, ReadingColumns>();
+  if (channelIds.length === 0) return out;
+  // One aggregate per channel (a lateral subquery over the index), not a GROUP BY: grouping
+  // 357,120 readings by channel sorts or hashes them all, and array states spill past work_mem.
+  const { rows } = await scope.db.raw(
+    `select c.id::text as channel_id, x.columns
+       from unnest(?::uuid[]) as c(id)
+       cross join lateral (
+         select json_build_object('t', array_agg(date_part('epoch', r.t) * 1000), 'v', array_agg(r.value),
+                                  's', array_agg(${statusIndexSql}))::text as columns, count(*) as n
+           from readings r
+          where r.tenant_id = ? and r.channel_id = c.id and r.superseded_at is null and r.t >= ? and r.t < ?
+       ) x
+      where x.n > 0`,
+    [[...channelIds], scope.tenantId, iso(fromMs), iso(toMs)],
+  );
+  for (const r of rows as { channel_id: string; columns: string }[]) out.set(r.channel_id, unpackReadings(JSON.parse(r.columns) as PackedReadings));
+  return out;
+}
+
+/**
+ * First and last timestamp (UTC ms) of the current readings of each channel, in one statement
+ * (each min/max is still answered from the current-readings index). Channels without current
+ * readings are absent.
+ */
+export async function currentReadingSpans(scope: ResultsScope, channelIds: readonly string[]): Promise<Map<string, { first: number; last: number }>> {
+  const out = new Map<string, { first: number; last: number }>();
+  if (channelIds.length === 0) return out;
+  const { rows } = await scope.db.raw(
+    `select c.id::text as channel_id,
+            date_part('epoch', (select min(t) from readings r where r.tenant_id = ? and r.channel_id = c.id and r.superseded_at is null)) * 1000 as first,
+            date_part('epoch', (select max(t) from readings r where r.tenant_id = ? and r.channel_id = c.id and r.superseded_at is null)) * 1000 as last
+       from unnest(?::uuid[]) as c(id)`,
+    [scope.tenantId, scope.tenantId, [...channelIds]],
+  );
+  for (const r of rows as { channel_id: string; first: number | null; last: number | null }[]) {
+    if (r.first !== null && r.last !== null) out.set(r.channel_id, { first: r.first, last: r.last });
+  }
+  return out;
 }
 
 /** Creates the month partitions of both hourly tables for [fromMs, toMs). */
@@ -81,12 +109,62 @@ export async function replaceChannelHours(scope: ResultsScope, channelId: string
       rows.map((r) => r.hourStart),
       rows.map((r) => r.value),
       rows.map((r) => r.status),
-      rows.map((r) => Math.min(1, Math.max(0, r.coverage))),
+      rows.map((r) => clampCoverage(r.coverage)),
       rows.map((r) => r.readingsValid),
       rows.map((r) => r.readingsTotal),
       rows.map((r) => r.reason),
     ]),
   );
+}
+
+/**
+ * Replaces the hourly values of several channels in [fromMs, toMs) by `rowsByChannel` (rows lie
+ * inside the range; a channel without rows keeps none there): one DELETE and one INSERT for all.
+ */
+export async function replaceChannelHoursOf(
+  scope: ResultsScope,
+  channelIds: readonly string[],
+  fromMs: number,
+  toMs: number,
+  rowsByChannel: ReadonlyMap<string, readonly ChannelHourRow[]>,
+): Promise<void> {
+  if (channelIds.length === 0) return;
+  await scope.db.raw('delete from hourly_values where tenant_id = ? and channel_id = any(?::uuid[]) and hour_start >= ? and hour_start < ?', [
+    scope.tenantId,
+    [...channelIds],
+    iso(fromMs),
+    iso(toMs),
+  ]);
+  const ids: string[] = [];
+  const all: ChannelHourRow[] = [];
+  for (const channelId of channelIds) {
+    for (const r of rowsByChannel.get(channelId) ?? []) {
+      ids.push(channelId);
+      all.push(r);
+    }
+  }
+  if (all.length === 0) return;
+  await scope.db.raw(
+    `insert into hourly_values (tenant_id, channel_id, hour_start, value, status, coverage, readings_valid, readings_total, reason, computed_at)
+     select ?, u.ch, to_timestamp(u.h / 1000.0), u.v, u.s, u.c, u.rv, u.rt, u.r, now()
+       from unnest(?::uuid[], ?::float8[], ?::float8[], ?::text[], ?::float8[], ?::int[], ?::int[], ?::text[]) as u(ch, h, v, s, c, rv, rt, r)`,
+    arrays([
+      scope.tenantId,
+      ids,
+      all.map((r) => r.hourStart),
+      all.map((r) => r.value),
+      all.map((r) => r.status),
+      all.map((r) => clampCoverage(r.coverage)),
+      all.map((r) => r.readingsValid),
+      all.map((r) => r.readingsTotal),
+      all.map((r) => r.reason),
+    ]),
+  );
+}
+
+/** Coverage as stored (0–1). */
+export function clampCoverage(coverage: number): number {
+  return Math.min(1, Math.max(0, coverage));
 }
 
 /** Replaces the limit's hourly values in [fromMs, toMs) by `rows`. */

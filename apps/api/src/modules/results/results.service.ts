@@ -9,15 +9,17 @@
  * fuel analysis they used (or are missing for hours the pollutant has).
  */
 import { millisecondsInHour, type HourlySeries } from '@flueledger/calc';
-import { channelHours, seriesFromStoredHours, validityRuleFor } from './channel-hours';
+import { type ChannelHourRow, channelHours, seriesFromStoredHours, validityRuleFor } from './channel-hours';
 import { type LimitPlan, deriveLimitHours, planLimit } from './limit-hours';
 import {
   type StoredChannelHour,
-  currentReadingSpan,
+  clampCoverage,
+  currentReadingSpans,
   ensureHourlyPartitions,
   loadChannelHours,
-  loadCurrentReadings,
+  loadCurrentReadingsOf,
   replaceChannelHours,
+  replaceChannelHoursOf,
   replaceLimitHours,
 } from './results.repo';
 import { type ResultsScope, type StackContext, loadStackContext, stacksOfChannels } from './stack-context';
@@ -56,19 +58,73 @@ export async function recomputeForReadings(scope: ResultsScope, change: { channe
     const ctx = await loadStackContext(scope, stackId);
     if (!ctx) continue;
     const changedSet = new Set(changed);
-    for (const channel of ctx.channels) {
-      if (!changedSet.has(channel.id)) continue;
-      await recomputeChannelHours(scope, ctx, channel.id, range);
-      summary.channels++;
+    const changedIds = ctx.channels.filter((c) => changedSet.has(c.id)).map((c) => c.id);
+    // All changed channels at once: one span query, one readings query, one delete + insert.
+    const computed = await computeChannelHoursOf(scope, ctx, changedIds, range);
+    await replaceChannelHoursOf(scope, changedIds, range.from, range.to, computed);
+    summary.channels += changedIds.length;
+    // The limits use the hours just computed (not read back); only unchanged inputs are loaded.
+    const now = Date.now();
+    const known = new Map<string, StoredChannelHour[]>();
+    for (const id of changedIds) known.set(id, (computed.get(id) ?? []).map((r) => ({ ...r, channelId: id, computedAt: now })));
+    const plans = ctx.limits
+      .map((limit) => ({ limit, plan: planLimit(ctx, limit) }))
+      .filter(({ plan }) => !plan.ok || plan.channelIds.some((id) => changedSet.has(id)));
+    const missing = [...new Set(plans.flatMap(({ plan }) => (plan.ok ? plan.channelIds : [])))].filter((id) => !known.has(id));
+    if (missing.length > 0) {
+      for (const id of missing) known.set(id, []);
+      for (const h of await loadChannelHours(scope, missing, range.from, range.to)) known.get(h.channelId)!.push(h);
     }
-    for (const limit of ctx.limits) {
-      const plan = planLimit(ctx, limit);
-      if (plan.ok && !plan.channelIds.some((id) => changedSet.has(id))) continue;
-      await recomputeLimitHours(scope, ctx, limit, range, plan);
+    for (const { limit, plan } of plans) {
+      if (!plan.ok) await replaceLimitHours(scope, limit.id, range.from, range.to, []);
+      else {
+        const rows = deriveLimitHours(limit, plan, seriesByChannel(plan.channelIds.flatMap((id) => known.get(id) ?? [])), ctx.fuel);
+        await replaceLimitHours(scope, limit.id, range.from, range.to, rows);
+      }
       summary.limits++;
     }
   }
   return summary;
+}
+
+/** The whole hours of a channel that get a row: those of `range` between its first and last current reading. */
+function storedHourSpan(range: HourRange, span: { first: number; last: number } | undefined): HourRange | null {
+  if (!span) return null;
+  const from = Math.max(range.from, Math.floor(span.first / millisecondsInHour) * millisecondsInHour);
+  const to = Math.min(range.to, Math.floor(span.last / millisecondsInHour) * millisecondsInHour + millisecondsInHour);
+  return to > from ? { from, to } : null;
+}
+
+/**
+ * Hourly values of several channels of a stack over `range` (same rules as
+ * `recomputeChannelHours`), without storing them: rows by channel id.
+ */
+export async function computeChannelHoursOf(
+  scope: ResultsScope,
+  ctx: StackContext,
+  channelIds: readonly string[],
+  range: HourRange,
+): Promise<Map<string, ChannelHourRow[]>> {
+  const out = new Map<string, ChannelHourRow[]>();
+  const spans = await currentReadingSpans(scope, channelIds);
+  const hourSpans = new Map<string, HourRange>();
+  for (const id of channelIds) {
+    const hours = storedHourSpan(range, spans.get(id));
+    if (hours) hourSpans.set(id, hours);
+    else out.set(id, []);
+  }
+  if (hourSpans.size === 0) return out;
+  // Readings outside a channel's own span do not exist, so one load over the range serves all.
+  const readings = await loadCurrentReadingsOf(scope, [...hourSpans.keys()], range.from, range.to);
+  const rule = validityRuleFor(ctx.regime);
+  for (const [id, hours] of hourSpans) {
+    const channel = ctx.channels.find((c) => c.id === id)!;
+    const columns = readings.get(id) ?? { t: new Float64Array(0), value: new Float64Array(0), status: new Uint8Array(0) };
+    const rows = channelHours(columns, { fromMs: hours.from, toMs: hours.to, intervalMinutes: channel.intervalMinutes, rule });
+    for (const r of rows) r.coverage = clampCoverage(r.coverage);
+    out.set(id, rows);
+  }
+  return out;
 }
 
 /**
@@ -77,21 +133,8 @@ export async function recomputeForReadings(scope: ResultsScope, change: { channe
  * hours outside that span have no row.
  */
 export async function recomputeChannelHours(scope: ResultsScope, ctx: StackContext, channelId: string, range: HourRange): Promise<void> {
-  const channel = ctx.channels.find((c) => c.id === channelId);
-  if (!channel) return;
-  const span = await currentReadingSpan(scope, channelId);
-  if (!span) {
-    await replaceChannelHours(scope, channelId, range.from, range.to, []);
-    return;
-  }
-  const from = Math.max(range.from, Math.floor(span.first / millisecondsInHour) * millisecondsInHour);
-  const to = Math.min(range.to, Math.floor(span.last / millisecondsInHour) * millisecondsInHour + millisecondsInHour);
-  if (!(to > from)) {
-    await replaceChannelHours(scope, channelId, range.from, range.to, []);
-    return;
-  }
-  const readings = await loadCurrentReadings(scope, channelId, from, to);
-  const rows = channelHours(readings, { fromMs: from, toMs: to, intervalMinutes: channel.intervalMinutes, rule: validityRuleFor(ctx.regime) });
+  if (!ctx.channels.some((c) => c.id === channelId)) return;
+  const rows = (await computeChannelHoursOf(scope, ctx, [channelId], range)).get(channelId) ?? [];
   await replaceChannelHours(scope, channelId, range.from, range.to, rows);
 }
 

@@ -1,9 +1,12 @@
+/// <reference path="./exceljs-internals.d.ts" />
 /**
  * Reads an uploaded file (.xlsx through exceljs's streaming reader, or CSV) into the sheet
  * interpreter. The first sheet with data is read; a workbook's other sheets are ignored.
  */
 import { Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
+import parseSax from 'exceljs/lib/utils/parse-sax';
+import excelUtils from 'exceljs/lib/utils/utils';
 import type { RawCell } from './cells';
 import { readCsv, detectDelimiter } from './csv';
 import { decodeText, sniffFileType } from './file-type';
@@ -84,6 +87,172 @@ export function toRawCell(value: ExcelValue): RawCell {
   return String(value);
 }
 
+/** What the lean sheet reader needs of exceljs's WorkbookReader and WorksheetReader (exceljs 4.4). */
+interface WorkbookInternals {
+  sharedStrings?: ExcelValue[];
+  styles: { getStyleModel(id: number): { numFmt?: string } | null };
+  properties?: { model?: { date1904?: boolean } };
+}
+interface WorksheetInternals {
+  name?: string;
+  iterator: AsyncIterable<unknown>;
+}
+
+/** Column number (1-based) of a cell reference such as "AB12". */
+function columnOfRef(ref: string): number {
+  let col = 0;
+  for (let i = 0; i < ref.length; i++) {
+    const code = ref.charCodeAt(i);
+    if (code < 65 || code > 90) break;
+    col = col * 26 + (code - 64);
+  }
+  return col;
+}
+
+/**
+ * Reads one worksheet's rows with exceljs's own SAX events and value rules (shared strings,
+ * inline strings, errors, booleans, formulas' cached results, date formats from the cell's or
+ * the row's style), handing each row to `onRow` as interpreter cells. This replaces exceljs's
+ * row iterator, which builds a Row, a Cell per cell and a style object per cell and resolves one
+ * promise per row: for a month of one-minute data (450,000 cells) that object churn cost about
+ * as much as the XML parsing itself. Cells come out as exceljs's `row.values` would give them
+ * through `toRawCell`. Unlike exceljs, rows or cells without a reference (`r`) are placed after
+ * the previous one instead of failing.
+ */
+async function readSheetRows(worksheet: WorksheetInternals, workbook: WorkbookInternals, onRow: (rowNumber: number, cells: RawCell[]) => void): Promise<void> {
+  const sharedStrings = workbook.sharedStrings;
+  const date1904 = workbook.properties?.model?.date1904;
+  const dateStyle = new Map<number, boolean>();
+  const isDateStyle = (id: number): boolean | undefined => {
+    let known = dateStyle.get(id);
+    if (known === undefined) {
+      const model = workbook.styles.getStyleModel(id);
+      if (!model) return undefined;
+      known = excelUtils.isDateFmt(model.numFmt);
+      dateStyle.set(id, known);
+    }
+    return known;
+  };
+
+  let inRows = false;
+  let inRow = false;
+  let rowNumber = 0;
+  let rowIsDate = false;
+  let cells: RawCell[] = [];
+  let width = 0;
+  let column = 0;
+  // The cell being read: its type, style, formula and value text (exceljs keeps appending text to
+  // the last opened f/v/t element until the next one opens; so does this).
+  let inCell = false;
+  let cellType: string | undefined;
+  let cellStyle = 0;
+  let formula: string | null = null;
+  let valueText: string | null = null;
+  let current: 'f' | 'v' | null = null;
+
+  for await (const events of parseSax(worksheet.iterator)) {
+    for (const event of events) {
+      if (event.eventType === 'text') {
+        if (current === 'v') valueText += event.value;
+        else if (current === 'f') formula += event.value;
+        continue;
+      }
+      const node = event.value;
+      if (event.eventType === 'opentag') {
+        switch (node.name) {
+          case 'sheetData':
+            inRows = true;
+            break;
+          case 'row':
+            if (!inRows) break;
+            inRow = true;
+            rowNumber = node.attributes.r !== undefined ? parseInt(node.attributes.r, 10) : rowNumber + 1;
+            rowIsDate = node.attributes.s ? isDateStyle(parseInt(node.attributes.s, 10)) === true : false;
+            cells = [];
+            width = 0;
+            column = 0;
+            break;
+          case 'c':
+            if (!inRow) break;
+            inCell = true;
+            column = node.attributes.r !== undefined ? columnOfRef(node.attributes.r) : column + 1;
+            cellType = node.attributes.t;
+            cellStyle = parseInt(node.attributes.s ?? '', 10);
+            formula = null;
+            valueText = null;
+            current = null;
+            break;
+          case 'f':
+            if (inCell) {
+              formula = '';
+              current = 'f';
+            }
+            break;
+          case 'v':
+          case 'is':
+          case 't':
+            if (inCell) {
+              valueText = '';
+              current = 'v';
+            }
+            break;
+          default:
+            break;
+        }
+        continue;
+      }
+      // closetag
+      if (node.name === 'c' && inCell) {
+        inCell = false;
+        let value: RawCell | undefined;
+        let present = true;
+        if (valueText === null) {
+          // No value: a formula without a cached result still counts as a cell (exceljs keeps it).
+          present = formula !== null;
+          value = null;
+        } else if (formula !== null) {
+          value = cellType === 'str' ? excelUtils.xmlDecode(valueText) : parseFloat(valueText);
+        } else {
+          switch (cellType) {
+            case 's': {
+              const index = parseInt(valueText, 10);
+              value = sharedStrings ? toRawCell(sharedStrings[index]) : null;
+              present = sharedStrings ? sharedStrings[index] !== null && sharedStrings[index] !== undefined : true;
+              break;
+            }
+            case 'inlineStr':
+            case 'str':
+              value = excelUtils.xmlDecode(valueText);
+              break;
+            case 'e':
+              value = { error: valueText };
+              break;
+            case 'b':
+              value = parseInt(valueText, 10) !== 0;
+              break;
+            default: {
+              const own = cellStyle ? isDateStyle(cellStyle) : undefined;
+              const number = parseFloat(valueText);
+              value = (own ?? rowIsDate) ? excelUtils.excelToDate(number, date1904) : number;
+            }
+          }
+        }
+        if (present && column > 0) {
+          while (cells.length < column - 1) cells.push(null);
+          cells[column - 1] = value ?? null;
+          if (column > width) width = column;
+        }
+      } else if (node.name === 'row' && inRow) {
+        inRow = false;
+        cells.length = width;
+        onRow(rowNumber, cells);
+      } else if (node.name === 'sheetData') {
+        inRows = false;
+      }
+    }
+  }
+}
+
 async function parseWorkbook(bytes: Buffer, options: InterpretOptions): Promise<ParsedFile> {
   const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([bytes]), {
     entries: 'emit',
@@ -96,20 +265,23 @@ async function parseWorkbook(bytes: Buffer, options: InterpretOptions): Promise<
   try {
     for await (const worksheet of reader) {
       sheetsSeen++;
-      const readerProps = reader as unknown as { properties?: { model?: { date1904?: boolean } } };
-      const date1904 = readerProps.properties?.model?.date1904 ?? false;
+      const workbook = reader as unknown as WorkbookInternals;
+      const date1904 = workbook.properties?.model?.date1904 ?? false;
       const interpreter = new SheetInterpreter({ ...options, date1904 });
       let anyRow = false;
-      for await (const row of worksheet as unknown as AsyncIterable<ExcelJS.Row>) {
-        const values = row.values as ExcelValue[];
-        const cells: RawCell[] = [];
-        // row.values is 1-based (index 0 is empty).
-        for (let c = 1; c < values.length; c++) cells.push(toRawCell(values[c]));
-        if (cells.some((cell) => cell !== null && !(typeof cell === 'string' && cell.trim() === ''))) anyRow = true;
-        interpreter.push(row.number, cells);
-      }
+      await readSheetRows(worksheet as unknown as WorksheetInternals, workbook, (rowNumber, cells) => {
+        if (!anyRow) {
+          for (const cell of cells) {
+            if (cell !== null && !(typeof cell === 'string' && cell.trim() === '')) {
+              anyRow = true;
+              break;
+            }
+          }
+        }
+        interpreter.push(rowNumber, cells);
+      });
       if (!anyRow) continue;
-      const name = (worksheet as unknown as { name?: string }).name ?? null;
+      const name = (worksheet as unknown as WorksheetInternals).name ?? null;
       return { ...interpreter.finish(), format: 'xlsx', sheetName: name };
     }
   } catch (error) {

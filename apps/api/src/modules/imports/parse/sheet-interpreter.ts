@@ -334,17 +334,15 @@ export class SheetInterpreter {
     const tsCell = cells[this.tsColumn];
     let kind = TS_NONE;
     let ms = NaN;
-    const tsProblem = (reason: string): void => {
-      rejected = true;
-      this.addProblem({ row: rowNumber, columnIndex: this.tsColumn, value: cellText(tsCell), code: 'bad_timestamp', reason });
-    };
-    if (isBlank(tsCell)) tsProblem('No timestamp in this row.');
+    // Set when the timestamp is unusable (no closure per row: a month is 44,640 rows).
+    let tsReason: string | null = null;
+    if (isBlank(tsCell)) tsReason = 'No timestamp in this row.';
     else if (tsCell instanceof Date) {
       kind = TS_WALL;
       ms = Math.round(tsCell.getTime() / millisecondsInSecond) * millisecondsInSecond;
     } else if (typeof tsCell === 'number') {
       const wall = excelSerialToWallMs(tsCell, this.options.date1904 ?? false);
-      if (wall === null) tsProblem(`${tsCell} is not a date (Excel serial day 60 is the non-existent 29 February 1900).`);
+      if (wall === null) tsReason = `${tsCell} is not a date (Excel serial day 60 is the non-existent 29 February 1900).`;
       else {
         kind = TS_WALL;
         ms = wall;
@@ -355,8 +353,8 @@ export class SheetInterpreter {
         this.pendingText.set(index, tsCell);
       } else {
         const parsed = parseTextTimestamp(tsCell, 'day_first');
-        if (parsed === null) tsProblem(`"${tsCell.trim()}" is not a date and time.`);
-        else if (parsed.kind === 'invalid') tsProblem(`"${tsCell.trim()}": ${parsed.reason}.`);
+        if (parsed === null) tsReason = `"${tsCell.trim()}" is not a date and time.`;
+        else if (parsed.kind === 'invalid') tsReason = `"${tsCell.trim()}": ${parsed.reason}.`;
         else if (parsed.kind === 'wall') {
           kind = TS_WALL;
           ms = parsed.wallMs;
@@ -365,16 +363,21 @@ export class SheetInterpreter {
           ms = parsed.utcMs;
         }
       }
-    } else if (isErrorCell(tsCell)) tsProblem(`The timestamp cell holds the spreadsheet error ${tsCell.error}.`);
-    else tsProblem(`"${cellText(tsCell)}" is not a date and time.`);
+    } else if (isErrorCell(tsCell)) tsReason = `The timestamp cell holds the spreadsheet error ${tsCell.error}.`;
+    else tsReason = `"${cellText(tsCell)}" is not a date and time.`;
     if (kind === TS_WALL || kind === TS_INSTANT) {
       const year = new Date(ms).getUTCFullYear();
       if (year < minPlausibleYear || year >= maxPlausibleYear) {
-        tsProblem(`${formatWall(ms)} is not a plausible measurement time.`);
+        tsReason = `${formatWall(ms)} is not a plausible measurement time.`;
         kind = TS_NONE;
       }
     }
-    if (kind !== TS_NONE) this.tsDisplay.set(index, typeof tsCell === 'string' ? tsCell.trim() : formatWall(ms));
+    if (tsReason !== null) {
+      rejected = true;
+      this.addProblem({ row: rowNumber, columnIndex: this.tsColumn, value: cellText(tsCell), code: 'bad_timestamp', reason: tsReason });
+    }
+    // Text timestamps are shown as written; the others are formatted only if a problem needs them.
+    if (kind !== TS_NONE && typeof tsCell === 'string') this.tsDisplay.set(index, tsCell.trim());
     this.tsKind.push(kind);
     this.tsMs.push(ms);
 
@@ -629,7 +632,11 @@ export class SheetInterpreter {
   }
 
   private timestampDisplay(i: number, labelUtcMs: number): string {
-    return this.tsDisplay.get(i) ?? new Date(labelUtcMs).toISOString();
+    const text = this.tsDisplay.get(i);
+    if (text !== undefined) return text;
+    // A date or serial cell: its wall-clock time as read (tsMs keeps it for such cells).
+    if (this.tsKind[i] === TS_WALL && !this.pendingText.has(i)) return formatWall(this.tsMs[i]!);
+    return new Date(labelUtcMs).toISOString();
   }
 
   private sameRow(a: number, b: number): boolean {
