@@ -2,6 +2,7 @@ import { createApp } from './app';
 import { loadEnv } from './config/env';
 import { createDb } from './lib/db';
 import { createSessionStore } from './lib/session';
+import { scheduleJobs } from './jobs/schedule';
 
 const env = loadEnv();
 const db = createDb(env);
@@ -14,12 +15,15 @@ const server = app.listen(env.PORT, env.HOST, () => {
   console.log(`FlueLedger API listening on http://${env.HOST}:${port}`);
 });
 
+const jobs = env.JOBS_ENABLED ? scheduleJobs(db, (message) => console.log(message)) : [];
+
 let stopping = false;
 
 async function shutdown(signal: string): Promise<void> {
   if (stopping) return;
   stopping = true;
   console.log(`${signal} received: closing`);
+  for (const job of jobs) await job.stop();
   // Stop accepting connections, let requests in flight finish, then close idle keep-alives.
   const closed = new Promise<void>((resolve) => server.close(() => resolve()));
   server.closeIdleConnections();

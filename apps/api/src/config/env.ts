@@ -43,6 +43,9 @@ const EnvSchema = z
     IMPORT_MAX_BYTES: z.coerce.number().int().min(1024).default(50 * 1024 * 1024),
     LOGIN_RATE_LIMIT_MAX: z.coerce.number().int().min(1).default(10),
     LOGIN_RATE_LIMIT_WINDOW_MINUTES: z.coerce.number().positive().default(15),
+    // Run the scheduled jobs (jobs/schedule.ts) in this instance. Safe on every instance: each job
+    // takes an advisory lock; turn off only for instances that should serve requests alone.
+    JOBS_ENABLED: booleanString.default(true),
     // Send HSTS and upgrade-insecure-requests (only meaningful behind TLS). Defaults to production.
     HTTPS: booleanString.optional(),
   })
