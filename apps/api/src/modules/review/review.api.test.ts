@@ -68,9 +68,42 @@ async function insertReadings(channelId: string, at: (ms: number) => { value: nu
   );
 }
 
-const review = (client: ApiClient, query = '?from=2026-11-02&to=2026-11-05') => client.get(`/api/stacks/${tree.stackId}/review${query}`);
-type HourEntry = { hourStart: string; channels: Record<string, { value: number | null; status: string; reason: string | null }>; limits: Record<string, { value: number | null; status: string; reason: string | null }> };
-const hourOf = (body: { hourly: HourEntry[] }, ms: number) => body.hourly.find((h) => h.hourStart === new Date(ms).toISOString())!;
+const reviewPath = (query = '?from=2026-11-02&to=2026-11-05') => `/api/stacks/${tree.stackId}/review${query}`;
+const review = (client: ApiClient, query?: string) => client.get(reviewPath(query));
+
+// The hourly series travels as columns on a regular UTC grid (hour i starts at fromMs + i·stepMs),
+// statuses and reasons as indexes into legends. `hourOf` reads one hour back out of the columns.
+type Columns = { value: (number | null)[]; status: (number | null)[]; reason: (number | null)[]; coverage?: (number | null)[] };
+type HourlyColumns = {
+  fromMs: number;
+  stepMs: number;
+  count: number;
+  statusLegend: string[];
+  reasonLegend: string[];
+  channels: Record<string, Columns>;
+  limits: Record<string, Columns>;
+};
+type HourEntry = { value: number | null; status: string; reason: string | null; coverage?: number | null };
+function hourOf(body: { hourly: HourlyColumns }, ms: number): { hourStart: string; channels: Record<string, HourEntry>; limits: Record<string, HourEntry> } {
+  const h = body.hourly;
+  const i = (ms - h.fromMs) / h.stepMs;
+  if (!(Number.isInteger(i) && i >= 0 && i < h.count)) throw new Error(`${new Date(ms).toISOString()} is not an hour of the review`);
+  const at = (columns: Record<string, Columns>) => {
+    const out: Record<string, HourEntry> = {};
+    for (const [id, c] of Object.entries(columns)) {
+      const status = c.status[i];
+      if (status === null || status === undefined) continue; // no stored hour
+      out[id] = {
+        value: c.value[i]!,
+        status: h.statusLegend[status]!,
+        reason: h.reasonLegend[c.reason[i]!] === 'none' ? null : h.reasonLegend[c.reason[i]!]!,
+        ...(c.coverage ? { coverage: c.coverage[i]! } : {}),
+      };
+    }
+    return out;
+  };
+  return { hourStart: new Date(h.fromMs + i * h.stepMs).toISOString(), channels: at(h.channels), limits: at(h.limits) };
+}
 
 beforeAll(async () => {
   t = createTestApp();
@@ -146,9 +179,17 @@ describe('GET /api/stacks/:stackId/review', () => {
     expect(res.body.timeZone).toBe('Europe/Berlin');
     expect(res.body.from).toBe('2026-11-01T23:00:00.000Z');
     expect(res.body.to).toBe('2026-11-04T23:00:00.000Z');
-    expect(res.body.hourly).toHaveLength(72);
+    expect(res.body.hourly).toMatchObject({ fromMs: FROM, stepMs: H, count: 72 });
+    // Every column holds one entry per hour of the grid.
+    for (const group of [res.body.hourly.channels, res.body.hourly.limits]) {
+      for (const columns of Object.values(group) as Record<string, unknown[]>[]) {
+        for (const column of Object.values(columns)) expect(column).toHaveLength(72);
+      }
+    }
+    expect(Object.keys(res.body.hourly.channels).sort()).toEqual([tree.channelId, o2Id, co2Id].sort());
+    expect(Object.keys(res.body.hourly.limits)).toContain(limitId);
     const normal = hourOf(res.body, Date.UTC(2026, 10, 2, 12));
-    expect(normal.channels[tree.channelId]).toMatchObject({ value: 60, status: 'valid' });
+    expect(normal.channels[tree.channelId]).toMatchObject({ value: 60, status: 'valid', coverage: 1, reason: null });
     expect(normal.limits[limitId].status).toBe('valid');
     expect(normal.limits[limitId].value).toBeCloseTo(corrected(60, 8, 3), 6); // 83.08
     // REFERENCES.md §4 check value [derived]: 150 mg/Nm3 at 8 % O2 → 207.69 mg/Nm3 at 3 %.
@@ -180,9 +221,11 @@ describe('GET /api/stacks/:stackId/review', () => {
     expect(result.invalidDays).toBe(0);
     expect(result.limit.summary).toEqual(expect.any(String));
     // Daily series in the local calendar: three days, the spike day above the threshold.
-    expect(res.body.daily.map((d: { dayStart: string }) => d.dayStart)).toEqual(['2026-11-01T23:00:00.000Z', '2026-11-02T23:00:00.000Z', '2026-11-03T23:00:00.000Z']);
-    expect(res.body.daily[1].limits[limitId].validatedValue).toBeCloseTo(corrected(150, 8, 3) - 20, 6);
-    expect(res.body.daily[0].channels[tree.channelId].value).toBe(60);
+    expect(res.body.daily.dayStart).toEqual(['2026-11-01T23:00:00.000Z', '2026-11-02T23:00:00.000Z', '2026-11-03T23:00:00.000Z']);
+    expect(res.body.daily.dayEnd).toEqual(['2026-11-02T23:00:00.000Z', '2026-11-03T23:00:00.000Z', '2026-11-04T23:00:00.000Z']);
+    expect(res.body.daily.limits[limitId].validatedValue[1]).toBeCloseTo(corrected(150, 8, 3) - 20, 6);
+    expect(res.body.daily.statusLegend[res.body.daily.limits[limitId].status[1]]).toBe('valid');
+    expect(res.body.daily.channels[tree.channelId].value[0]).toBe(60);
   });
 
   it('flags the hour whose CO2 does not fit the O2 and the fuel’s CO2max', async () => {
@@ -214,12 +257,45 @@ describe('GET /api/stacks/:stackId/review', () => {
     expect((await review(auditor)).status).toBe(200);
   });
 
+  it('answers 304 to a client that holds the current answer, and 200 to one that holds another', async () => {
+    const first = await review(officer);
+    const etag = first.headers['etag'];
+    expect(etag).toMatch(/^"[^"]+"$/); // a strong tag
+    expect(first.headers['cache-control']).toBe('private, no-cache');
+    const again = await officer.agent.get(reviewPath()).set('If-None-Match', etag);
+    expect(again.status).toBe(304);
+    expect(again.text ?? '').toBe('');
+    expect(again.headers['etag']).toBe(etag);
+    const stale = await officer.agent.get(reviewPath()).set('If-None-Match', '"another"');
+    expect(stale.status).toBe(200);
+    expect(stale.body.hourly.count).toBe(72);
+    // Another period is another answer.
+    expect((await review(officer, '?from=2026-11-02&to=2026-11-04')).headers['etag']).not.toBe(etag);
+  });
+
+  it('adds how each limit hour was derived (O2, mass rate) only when asked', async () => {
+    const plain = await review(officer);
+    expect(plain.body.hourly.limits[limitId]).not.toHaveProperty('o2PercentDry');
+    const detailed = await review(officer, '?from=2026-11-02&to=2026-11-05&derivation=true');
+    expect(detailed.status).toBe(200);
+    expect(detailed.headers['etag']).not.toBe(plain.headers['etag']);
+    const columns = detailed.body.hourly.limits[limitId];
+    const i = (Date.UTC(2026, 10, 2, 12) - detailed.body.hourly.fromMs) / H;
+    expect(columns.o2PercentDry).toHaveLength(72);
+    expect(columns.o2PercentDry[i]).toBeCloseTo(8, 6); // the O2 analyser's 8 % dry
+    expect(columns.massKgPerHour).toHaveLength(72);
+    expect(columns.value[i]).toBeCloseTo(corrected(60, 8, 3), 6);
+  });
+
   it('recomputes the limit hours when the limit changes (read after the change)', async () => {
+    const tagBefore = (await review(officer)).headers['etag'];
     const before = await officer.get(`/api/permits/${tree.permitId}/limits`);
     const version = before.body.items.find((l: { id: string }) => l.id === limitId).version;
     const patched = await officer.patch(`/api/limits/${limitId}`, { referenceO2Percent: 6, version });
     expect(patched.status).toBe(200);
-    const res = await review(officer);
+    const res = await officer.agent.get(reviewPath()).set('If-None-Match', tagBefore);
+    expect(res.status).toBe(200); // the client's copy is out of date
+    expect(res.headers['etag']).not.toBe(tagBefore);
     expect(hourOf(res.body, Date.UTC(2026, 10, 2, 12)).limits[limitId].value).toBeCloseTo(corrected(60, 8, 6), 6); // 69.23
     const back = await officer.patch(`/api/limits/${limitId}`, { referenceO2Percent: 3, version: patched.body.version });
     expect(back.status).toBe(200);
@@ -274,11 +350,15 @@ describe('POST /api/channels/:channelId/corrections', () => {
   });
 
   it('substitutes with new superseding rows, audits it and changes the hourly values', async () => {
+    const tagBefore = (await review(officer)).headers['etag'];
     const res = await officer.post(`/api/channels/${tree.channelId}/corrections`, body);
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ action: 'substitute', superseded: 60, inserted: 60, valuePerReading: 60, hoursRecomputed: 1 });
 
-    const hour = hourOf((await review(officer)).body, spikeHour);
+    const after = await officer.agent.get(reviewPath()).set('If-None-Match', tagBefore);
+    expect(after.status).toBe(200);
+    expect(after.headers['etag']).not.toBe(tagBefore);
+    const hour = hourOf(after.body, spikeHour);
     expect(hour.channels[tree.channelId]).toMatchObject({ value: 60, status: 'substituted' });
     expect(hour.limits[limitId].value).toBeCloseTo(corrected(60, 8, 3), 6);
     expect(hour.limits[limitId].status).toBe('substituted');

@@ -12,8 +12,17 @@ export const reviewRoutes = [
     summary: "A stack's hourly and daily values, limit verdicts, availability, headroom and plausibility over a period",
     params: StackParams,
     query: ReviewQuery,
-    response: ReviewDto,
-    handler: ({ ctx, params, query }) => getReview(ctx, params.stackId, query),
+    // Raw, to answer 304 before the review is built; the 200 body is still parsed by ReviewDto.
+    // It leaves inside the request's transaction: its only writes are lazily recomputed limit
+    // hours, which a failed commit merely leaves to be recomputed on the next read.
+    response: 'raw',
+    handler: async ({ ctx, params, query, req, res }) => {
+      const answer = await getReview(ctx, params.stackId, query, { ifNoneMatch: req.get('if-none-match') });
+      // The browser keeps its copy but asks every time (no-cache): the tag answers in a few queries.
+      res.set({ ETag: answer.etag, 'Cache-Control': 'private, no-cache' });
+      if (answer.notModified) res.status(304).end();
+      else res.status(200).json(ReviewDto.parse(answer.review));
+    },
   }),
   defineRoute({
     method: 'get',

@@ -8,18 +8,24 @@ const Instant = z.union([z.iso.date(), z.iso.datetime({ offset: true })], { erro
 export const StackParams = z.object({ stackId: Id });
 export const ChannelParams = z.object({ channelId: Id });
 
-/** Without from/to the review shows the site's local calendar month holding the latest data. */
-export const ReviewQuery = z.object({ from: Instant.optional(), to: Instant.optional() });
+const Flag = z
+  .union([z.boolean(), z.enum(['true', 'false', '1', '0'])])
+  .optional()
+  .transform((v) => v === true || v === 'true' || v === '1');
+
+/**
+ * Without from/to the review shows the site's local calendar month holding the latest data.
+ * `derivation=true` adds each limit hour's O2 and mass rate (left out by default: they double the
+ * size of the hourly series, and the screens do not show them).
+ */
+export const ReviewQuery = z.object({ from: Instant.optional(), to: Instant.optional(), derivation: Flag });
 export type ReviewQuery = z.infer<typeof ReviewQuery>;
 
 /** Without from/to the drill-down shows the channel's last day of readings. */
 export const ReadingsQuery = z.object({
   from: Instant.optional(),
   to: Instant.optional(),
-  includeSuperseded: z
-    .union([z.boolean(), z.enum(['true', 'false', '1', '0'])])
-    .optional()
-    .transform((v) => v === true || v === 'true' || v === '1'),
+  includeSuperseded: Flag,
 });
 export type ReadingsQuery = z.infer<typeof ReadingsQuery>;
 
@@ -43,10 +49,72 @@ export type CorrectionBody = z.infer<typeof CorrectionBody>;
 
 const Num = z.number().nullable();
 
-const ChannelHourDto = z.object({ value: Num, status: z.string(), coverage: Num, reason: z.string().nullable() });
-const LimitHourDto = z.object({ value: Num, status: z.string(), reason: z.string().nullable(), o2PercentDry: Num, massKgPerHour: Num });
-const ChannelDayDto = z.object({ value: Num, status: z.string(), coverage: Num, validHours: z.number(), invalidHours: z.number() });
-const LimitDayDto = z.object({ value: Num, validatedValue: Num, status: z.string(), validHours: z.number(), invalidHours: z.number() });
+/**
+ * Hourly and daily series travel as columns: per channel and per limit one array per field, all
+ * of the same length, index i describing the i-th hour (or day). A month of eight channels and six
+ * limits is then a few dozen flat arrays instead of thousands of small objects to build, send and
+ * decode. Statuses and reasons are small integers, indexes into the legend sent beside them.
+ * A null status means no stored value for that hour (the other fields are null too).
+ */
+// The same check as z.array(z.number().nullable()), as one loop: a month is some 40,000 entries,
+// and zod's per-element parse would cost more than building the whole answer.
+const isNumberOrNull = (x: unknown) => x === null || (typeof x === 'number' && Number.isFinite(x));
+const isCodeOrNull = (x: unknown) => x === null || Number.isInteger(x);
+const Column = z.custom<(number | null)[]>((v) => Array.isArray(v) && v.every(isNumberOrNull), { error: 'Expected an array of numbers or nulls' });
+const CodeColumn = z.custom<(number | null)[]>((v) => Array.isArray(v) && v.every(isCodeOrNull), { error: 'Expected an array of integers or nulls' });
+
+const HourlyChannelColumns = z.object({
+  /** Mean of the hour's valid readings, in the channel's unit and basis. */
+  value: Column,
+  /** Index in `hourly.statusLegend`. */
+  status: CodeColumn,
+  /** Share (0–1) of the hour covered by valid readings, rounded to 0.001. */
+  coverage: Column,
+  /** Index in `hourly.reasonLegend` of why the hour is not valid; 0 (`none`) when there is no reason. */
+  reason: CodeColumn,
+});
+const HourlyLimitColumns = z.object({
+  /** In the limit's unit, basis and reference O2. */
+  value: Column,
+  status: CodeColumn,
+  reason: CodeColumn,
+  /** With `derivation=true` only: the O2 the hour was corrected with, and its mass rate. */
+  o2PercentDry: Column.optional(),
+  massKgPerHour: Column.optional(),
+});
+const DailyChannelColumns = z.object({ value: Column, status: CodeColumn, coverage: Column, validHours: CodeColumn, invalidHours: CodeColumn });
+const DailyLimitColumns = z.object({
+  /** The measured daily average. */
+  value: Column,
+  /** After the confidence interval is subtracted, where the limit asks for it. */
+  validatedValue: Column,
+  status: CodeColumn,
+  validHours: CodeColumn,
+  invalidHours: CodeColumn,
+});
+
+/**
+ * The hours of the period on a regular UTC grid: hour i starts at `fromMs + i · stepMs` (UTC epoch
+ * ms) for i < count. Channels (limits) with no stored hour in the period are left out.
+ */
+export const HourlySeriesDto = z.object({
+  fromMs: z.number(),
+  stepMs: z.number(),
+  count: z.number().int(),
+  statusLegend: z.array(z.string()),
+  reasonLegend: z.array(z.string()),
+  channels: z.record(z.string(), HourlyChannelColumns),
+  limits: z.record(z.string(), HourlyLimitColumns),
+});
+
+/** The site's local calendar days (23, 24 or 25 hours long), each bounded by its two local midnights. */
+export const DailySeriesDto = z.object({
+  dayStart: z.array(z.string()),
+  dayEnd: z.array(z.string()),
+  statusLegend: z.array(z.string()),
+  channels: z.record(z.string(), DailyChannelColumns),
+  limits: z.record(z.string(), DailyLimitColumns),
+});
 
 const EventDto = z.object({
   start: z.string(),
@@ -66,10 +134,8 @@ export const ReviewDto = z.object({
   channels: z.array(
     z.object({ id: z.string(), parameter: z.string(), unit: z.string(), basis: z.string(), conditions: z.string(), intervalMinutes: z.number() }),
   ),
-  hourly: z.array(z.object({ hourStart: z.string(), channels: z.record(z.string(), ChannelHourDto), limits: z.record(z.string(), LimitHourDto) })),
-  daily: z.array(
-    z.object({ dayStart: z.string(), dayEnd: z.string(), channels: z.record(z.string(), ChannelDayDto), limits: z.record(z.string(), LimitDayDto) }),
-  ),
+  hourly: HourlySeriesDto,
+  daily: DailySeriesDto,
   limits: z.array(
     z.object({
       limit: LimitDto,

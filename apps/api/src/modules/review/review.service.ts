@@ -4,13 +4,21 @@
  * days, exceedances, near misses and headroom (the calc compliance engine), and the O2/CO2
  * plausibility check (expected CO2 from the fuel's CO2max). Reads the stored results; a limit's
  * hours older than the limit, its channels or the fuel analysis are recomputed first.
+ *
+ * The hours come from the database as one array per column and go out the same way (see
+ * review.schemas.ts): a month of a stack is a few dozen flat arrays, not thousands of objects.
  */
+import { createHash } from 'node:crypto';
 import {
   CalcInputError,
   type Evaluation,
   type ExceedanceEvent,
+  HOUR_STATUSES,
+  HourStatusCode,
   type HourlySeries,
   type LimitRule,
+  type PeriodValue,
+  allocateHourlySeries,
   evaluateLimit,
   headroom,
   isUsableHour,
@@ -25,12 +33,21 @@ import { toLimitDto } from '../permits/limits.repo';
 import { toDateOnly } from '../sites/db-values';
 import { toLimitRule } from '../permits/limits.mapper';
 import type { LimitRow } from '../permits/limits.repo';
-import { seriesFromStoredHours, toDbWord } from '../results/channel-hours';
+import { toDbWord } from '../results/channel-hours';
 import { planLimit } from '../results/limit-hours';
-import { type StoredChannelHour, type StoredLimitHour, ensureHourlyPartitions, loadChannelHours, loadLimitHours } from '../results/results.repo';
+import { ensureHourlyPartitions } from '../results/results.repo';
 import { limitHoursStale, recomputeLimitHours, wholeHours } from '../results/results.service';
 import { type StackContext, loadStackContext } from '../results/stack-context';
 import { type ReviewCtx, checkRange, findVisibleStack, localMonthOf, millisecondsInDay, parseInstant } from './review-access';
+import {
+  HOUR_REASON_LEGEND,
+  HOUR_STATUS_LEGEND,
+  type LimitHourRange,
+  type StoredHours,
+  type StoredHoursRead,
+  UNKNOWN_STATUS_CODE,
+  loadStoredHours,
+} from './review.repo';
 import type { ReviewDto, ReviewQuery } from './review.schemas';
 
 /** Longest period one review covers (a quarter): the hourly table of a longer one is a report's job. */
@@ -58,16 +75,6 @@ function lookbackMs(limit: LimitRow): number {
   return 0;
 }
 
-function groupBy<T extends { [k in K]: string }, K extends string>(rows: readonly T[], key: K): Map<string, T[]> {
-  const out = new Map<string, T[]>();
-  for (const r of rows) {
-    let list = out.get(r[key]);
-    if (!list) out.set(r[key], (list = []));
-    list.push(r);
-  }
-  return out;
-}
-
 function appliesInPeriod(limit: LimitRow, from: number, to: number): boolean {
   const effectiveFrom = Date.parse(toDateOnly(limit.effective_from)!);
   const effectiveTo = limit.effective_to === null ? null : Date.parse(toDateOnly(limit.effective_to)!);
@@ -89,7 +96,26 @@ function eventDto(e: ExceedanceEvent) {
 
 const verdictWord = (v: Evaluation['verdict']) => toDbWord(v) as 'compliant' | 'exceedance' | 'insufficient_data';
 
-export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQuery): Promise<ReviewDto> {
+/** Daily period statuses as sent: index = code in `daily.status` columns. */
+export const DAY_STATUS_LEGEND: readonly string[] = ['valid', 'invalid', 'not_operating', 'incomplete'];
+const dayStatusCode = new Map(DAY_STATUS_LEGEND.map((word, i) => [word, i]));
+
+/**
+ * Part of every entity tag. The tag must change whenever the answer could, so it also changes when
+ * this process starts: a new release may compute or shape the review differently.
+ */
+const TAG_EPOCH = `review-columns-1:${Date.now().toString(36)}`;
+
+export type ReviewAnswer = { etag: string; notModified: true } | { etag: string; notModified: false; review: ReviewDto };
+
+/**
+ * The review of a stack over a period, or only its entity tag when `ifNoneMatch` names it (the
+ * client's copy is current: answer 304). The tag is a hash of everything the answer is made of:
+ * the stack's context (site, channels, limits, fuel analysis, each with its change time), the
+ * period, and per channel and limit the count and newest `computed_at` of the stored hours read
+ * (a recompute replaces rows with a later `computed_at`; a removal lowers the count).
+ */
+export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQuery, options: { ifNoneMatch?: string } = {}): Promise<ReviewAnswer> {
   const visible = await findVisibleStack(ctx, stackId);
   const scope = { tenantId: ctx.tenantId, db: ctx.db };
   const sc = (await loadStackContext(scope, stackId))!;
@@ -108,63 +134,87 @@ export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQu
   checkRange(from, to, MAX_REVIEW_DAYS);
   const hours = wholeHours(from, to);
 
-  // --- stored hourly values (recomputing stale limit hours first) ---
+  // --- stored hours: markers (and, unless the client may hold the answer, the columns too) ---
   const limits = sc.limits.filter((l) => appliesInPeriod(l, from, to));
-  const channelIds = sc.channels.map((c) => c.id);
-  // One connection per transaction: queries run one after the other. Rolling limits also read
-  // the hours before the period that their first windows reach back to.
-  const channelRows = await loadChannelHours(scope, channelIds, hours.from, hours.to);
-  const limitRowsAll = await loadLimitHours(
-    scope,
-    limits.filter((l) => lookbackMs(l) === 0).map((l) => l.id),
-    hours.from,
-    hours.to,
-  );
-  for (const l of limits.filter((x) => lookbackMs(x) > 0)) limitRowsAll.push(...(await loadLimitHours(scope, [l.id], hours.from - lookbackMs(l), hours.to)));
-  const channelHoursById = groupBy(channelRows, 'channelId');
-  const limitHoursById = groupBy(limitRowsAll, 'limitId');
+  // Rolling limits also read the hours before the period that their first windows reach back to.
+  const limitRanges: LimitHourRange[] = limits.map((l) => ({ limitId: l.id, fromMs: hours.from - lookbackMs(l) }));
+  const read = (columns: boolean) =>
+    loadStoredHours(scope, { channelIds: sc.channels.map((c) => c.id), limitRanges, fromMs: hours.from, toMs: hours.to, columns, derivation: query.derivation });
+  const conditional = Boolean(options.ifNoneMatch);
+  let stored = await read(!conditional);
+
+  // Stale limit hours (older than the limit, its channels or the fuel analysis, or missing) are
+  // recomputed first, and read again.
+  let recomputed = false;
   for (const limit of limits) {
     const plan = planLimit(sc, limit);
-    // Freshness is judged on the period's own hours; a recompute covers the look-back too.
-    const stored = (limitHoursById.get(limit.id) ?? []).filter((r) => r.hourStart >= hours.from);
-    const pollutantHours = plan.ok ? (channelHoursById.get(plan.inputs.pollutant.id)?.length ?? 0) : 0;
-    const oldest = stored.reduce((m, r) => Math.min(m, r.computedAt), Infinity);
-    if (!limitHoursStale(sc, limit, plan, { count: stored.length, oldestComputedAt: oldest }, pollutantHours)) continue;
+    const m = stored.limits.get(limit.id);
+    // Freshness is judged on the count of the period's own hours and the age of every hour read.
+    const have = { count: m?.countInPeriod ?? 0, oldestComputedAt: m?.oldest ?? Infinity };
+    const pollutantHours = plan.ok ? (stored.channels.get(plan.inputs.pollutant.id)?.count ?? 0) : 0;
+    if (!limitHoursStale(sc, limit, plan, have, pollutantHours)) continue;
     const loadFrom = hours.from - lookbackMs(limit);
     await ensureHourlyPartitions(scope, loadFrom, hours.to);
     await recomputeLimitHours(scope, sc, limit, { from: loadFrom, to: hours.to }, plan);
-    limitHoursById.set(limit.id, await loadLimitHours(scope, [limit.id], loadFrom, hours.to));
+    recomputed = true;
   }
+  if (recomputed) stored = await read(!conditional);
+  if (conditional) {
+    const current = entityTag(sc, from, to, stored, query.derivation);
+    if (tagMatches(options.ifNoneMatch!, current)) return { etag: current, notModified: true };
+    // Read again with the columns: the tag sent is made from the same statement's markers as the
+    // hours sent (one snapshot).
+    stored = await read(true);
+  }
+  const etag = entityTag(sc, from, to, stored, query.derivation);
 
-  // --- engine series ---
+  // --- the engine's series, built straight from the columns ---
   const channelSeries = new Map<string, HourlySeries>();
-  for (const [id, rows] of channelHoursById) channelSeries.set(id, seriesFromStoredHours(rows));
+  for (const [id, cols] of stored.channels) channelSeries.set(id, seriesFromColumns(cols, hours.from));
   const limitSeries = new Map<string, HourlySeries>();
-  for (const [id, rows] of limitHoursById) limitSeries.set(id, seriesFromStoredHours(rows));
+  for (const [id, cols] of stored.limits) limitSeries.set(id, seriesFromColumns(cols, hours.from));
 
-  // --- hourly table ---
-  const hourly: ReviewDto['hourly'] = [];
-  const hourIndex = new Map<number, number>();
-  for (let h = hours.from; h < hours.to; h += millisecondsInHour) {
-    hourIndex.set(h, hourly.length);
-    hourly.push({ hourStart: iso(h), channels: {}, limits: {} });
+  // --- hourly series on the period's grid ---
+  const count = (hours.to - hours.from) / millisecondsInHour;
+  const hourly: ReviewDto['hourly'] = {
+    fromMs: hours.from,
+    stepMs: millisecondsInHour,
+    count,
+    statusLegend: [...HOUR_STATUS_LEGEND],
+    reasonLegend: [...HOUR_REASON_LEGEND],
+    channels: {},
+    limits: {},
+  };
+  for (const c of sc.channels) {
+    const cols = stored.channels.get(c.id);
+    const i = cols?.i ?? [];
+    const span = gridSpan(i, count);
+    if (!cols || !span) continue;
+    hourly.channels[c.id] = {
+      value: onGrid(i, cols.value!, span, count),
+      status: onGrid(i, cols.status!, span, count),
+      coverage: onGrid(i, cols.coverage!, span, count, roundShare),
+      reason: onGrid(i, cols.reason!, span, count),
+    };
+  }
+  for (const l of limits) {
+    const cols = stored.limits.get(l.id);
+    const i = cols?.i ?? [];
+    const span = gridSpan(i, count);
+    if (!cols || !span) continue;
+    hourly.limits[l.id] = {
+      value: onGrid(i, cols.value!, span, count),
+      status: onGrid(i, cols.status!, span, count),
+      reason: onGrid(i, cols.reason!, span, count),
+      ...(query.derivation
+        ? { o2PercentDry: onGrid(i, cols.o2PercentDry!, span, count), massKgPerHour: onGrid(i, cols.massKgPerHour!, span, count) }
+        : {}),
+    };
   }
   // The oldest computation behind the figures shown.
   let computedAt = Infinity;
-  for (const r of channelRows) {
-    const k = hourIndex.get(r.hourStart);
-    if (k === undefined) continue;
-    hourly[k]!.channels[r.channelId] = { value: r.value, status: r.status, coverage: r.coverage, reason: r.reason };
-    computedAt = Math.min(computedAt, r.computedAt);
-  }
-  for (const [limitId, rows] of limitHoursById) {
-    for (const r of rows) {
-      const k = hourIndex.get(r.hourStart);
-      if (k === undefined) continue;
-      hourly[k]!.limits[limitId] = { value: r.value, status: r.status, reason: r.reason, o2PercentDry: r.o2PercentDry, massKgPerHour: r.massKgPerHour };
-      computedAt = Math.min(computedAt, r.computedAt);
-    }
-  }
+  for (const m of stored.channels.values()) computedAt = Math.min(computedAt, m.oldest);
+  for (const [id, m] of stored.limits) if (hourly.limits[id]) computedAt = Math.min(computedAt, m.oldest);
 
   // --- per limit: rule, evaluation, headroom ---
   const rules = new Map<string, LimitRule | null>();
@@ -181,7 +231,7 @@ export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQu
     rules.set(limit.id, rule);
     const threshold = Number(((rule?.criterion.factor ?? 1) * dto.elv).toPrecision(12));
     const series = limitSeries.get(limit.id);
-    const inPeriod = (limitHoursById.get(limit.id) ?? []).filter((r) => r.hourStart >= hours.from).length;
+    const inPeriod = stored.limits.get(limit.id)?.countInPeriod ?? 0;
     const empty = {
       limit: dto,
       channelId: plan.ok ? plan.inputs.pollutant.id : null,
@@ -221,18 +271,93 @@ export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQu
   const daily = dailySeries(sc, channelSeries, limits, rules, limitSeries, tz, from, to);
 
   return {
-    stack: { id: sc.stackId, name: sc.stackName, siteId: sc.siteId, siteName: sc.siteName },
-    from: iso(from),
-    to: iso(to),
-    timeZone: tz,
-    channels: sc.channels.map((c) => ({ id: c.id, parameter: c.parameter, unit: c.unit, basis: c.basis, conditions: c.conditions, intervalMinutes: c.intervalMinutes })),
-    hourly,
-    daily,
-    limits: limitResults,
-    ...plausibility(sc, channelSeries, hours.from, hours.to),
-    computedAt: Number.isFinite(computedAt) ? iso(computedAt) : null,
-    disclaimer: REVIEW_DISCLAIMER,
+    etag,
+    notModified: false,
+    review: {
+      stack: { id: sc.stackId, name: sc.stackName, siteId: sc.siteId, siteName: sc.siteName },
+      from: iso(from),
+      to: iso(to),
+      timeZone: tz,
+      channels: sc.channels.map((c) => ({ id: c.id, parameter: c.parameter, unit: c.unit, basis: c.basis, conditions: c.conditions, intervalMinutes: c.intervalMinutes })),
+      hourly,
+      daily,
+      limits: limitResults,
+      ...plausibility(sc, channelSeries, hours.from, hours.to),
+      computedAt: Number.isFinite(computedAt) ? iso(computedAt) : null,
+      disclaimer: REVIEW_DISCLAIMER,
+    },
   };
+}
+
+/** A strong entity tag of the review answer (see `getReview`). */
+function entityTag(sc: StackContext, from: number, to: number, markers: StoredHoursRead, derivation = false): string {
+  const hourMarkers = (map: StoredHoursRead['channels']) =>
+    [...map].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([id, m]) => [id, m.count, m.countInPeriod, m.oldest, m.newest, m.last]);
+  // Headroom is judged as of min(now, end of period, end of data): while the data reach past
+  // now, the answer changes with the clock, and so does the tag.
+  let dataEnd = -Infinity;
+  for (const m of markers.limits.values()) dataEnd = Math.max(dataEnd, m.last + millisecondsInHour);
+  const asOf = Math.min(Date.now(), to, dataEnd);
+  const hash = createHash('sha256')
+    .update(JSON.stringify([TAG_EPOCH, from, to, derivation, asOf, sc, hourMarkers(markers.channels), hourMarkers(markers.limits)]))
+    .digest('base64url');
+  return `"${hash.slice(0, 32)}"`;
+}
+
+/** Whether an If-None-Match header names the tag (weak comparison, RFC 9110 §13.1.2). */
+export function tagMatches(ifNoneMatch: string, etag: string): boolean {
+  if (ifNoneMatch.trim() === '*') return true;
+  return ifNoneMatch.split(',').some((candidate) => candidate.trim().replace(/^W\//, '') === etag);
+}
+
+/** Index range [first, last) of the entries whose hour lies on the grid [0, count); null when none. */
+function gridSpan(offsets: readonly number[], count: number): [number, number] | null {
+  let first = 0;
+  while (first < offsets.length && offsets[first]! < 0) first++;
+  let last = first;
+  while (last < offsets.length && offsets[last]! < count) last++;
+  return last > first ? [first, last] : null;
+}
+
+/**
+ * One stored column placed on the grid of `count` hours, null where no hour is stored. The
+ * common case, every hour stored, is a plain slice.
+ */
+function onGrid<T>(offsets: readonly number[], column: readonly T[], [first, last]: [number, number], count: number, map?: (v: T) => T): (T | null)[] {
+  if (last - first === count) return map ? column.slice(first, last).map(map) : column.slice(first, last);
+  const out = new Array<T | null>(count).fill(null);
+  for (let k = first; k < last; k++) out[offsets[k]!] = map ? map(column[k]!) : column[k]!;
+  return out;
+}
+
+/** Shares are shown to 0.1 %: more digits only cost bytes. */
+const roundShare = (share: number | null): number | null => (share === null ? null : Math.round(share * 1000) / 1000);
+
+const usableCodes = new Set<number>([HourStatusCode.valid, HourStatusCode.substituted]);
+
+/**
+ * The engine's series of stored hours (sparse: only hours with a row, as stored). A usable hour
+ * always has a number; a stray null makes it invalid rather than breaking a whole review.
+ */
+function seriesFromColumns(hours: StoredHours, originMs: number): HourlySeries {
+  const cols = { i: hours.i ?? [], value: hours.value ?? [], status: hours.status ?? [], reason: hours.reason ?? [], coverage: hours.coverage };
+  const n = cols.i.length;
+  const s = allocateHourlySeries(n, millisecondsInHour);
+  for (let k = 0; k < n; k++) {
+    const code = cols.status[k]!;
+    if (code === UNKNOWN_STATUS_CODE || code >= HOUR_STATUSES.length) {
+      throw new CalcInputError(`A stored hour has a status outside ${HOUR_STATUS_LEGEND.join(', ')}.`, 'status');
+    }
+    const v = cols.value[k];
+    const value = v === null || v === undefined || !Number.isFinite(v) ? NaN : v;
+    s.t[k] = originMs + cols.i[k]! * millisecondsInHour;
+    s.value[k] = value;
+    s.status[k] = usableCodes.has(code) && Number.isNaN(value) ? HourStatusCode.invalid : code;
+    s.reason[k] = cols.reason[k] ?? 0;
+    const c = cols.coverage?.[k];
+    s.coverage[k] = c === null || c === undefined ? NaN : c;
+  }
+  return s;
 }
 
 /** Start of the latest stored hour of the stack's channels (or now). */
@@ -279,50 +404,75 @@ function dailySeries(
   from: number,
   to: number,
 ): ReviewDto['daily'] {
-  const days = new Map<number, ReviewDto['daily'][number]>();
-  const day = (start: number, end: number) => {
-    let d = days.get(start);
-    if (!d) days.set(start, (d = { dayStart: iso(start), dayEnd: iso(end), channels: {}, limits: {} }));
-    return d;
-  };
+  const dayEnds = new Map<number, number>();
+  const channelDays = new Map<string, readonly PeriodValue[]>();
+  const limitDays = new Map<string, readonly PeriodValue[]>();
   for (const c of sc.channels) {
     const s = channelSeries.get(c.id);
     if (!s || s.t.length === 0) continue;
-    for (const p of periodAverages(s, { period: 'day', timeZone: tz, from, to })) {
-      const operating = p.validHours + p.invalidHours;
-      day(p.start, p.end).channels[c.id] = {
-        value: p.measuredValue,
-        status: toDbWord(p.status),
-        coverage: operating ? p.validHours / operating : null,
-        validHours: p.validHours,
-        invalidHours: p.invalidHours,
-      };
-    }
+    channelDays.set(c.id, periodAverages(s, { period: 'day', timeZone: tz, from, to }));
   }
   for (const limit of limits) {
     const s = limitSeries.get(limit.id);
     const rule = rules.get(limit.id);
     if (!s || s.t.length === 0 || !rule) continue;
-    const periods = periodAverages(s, {
-      period: 'day',
-      timeZone: tz,
-      from,
-      to,
-      confidenceInterval: (rule.confidenceIntervalPercent / 100) * rule.elv,
-      excludeStatuses: rule.excludeStatuses,
-      ...(rule.minData ? { minData: rule.minData } : {}),
-    });
-    for (const p of periods) {
-      day(p.start, p.end).limits[limit.id] = {
-        value: p.measuredValue,
-        validatedValue: p.value,
-        status: toDbWord(p.status),
-        validHours: p.validHours,
-        invalidHours: p.invalidHours,
-      };
-    }
+    limitDays.set(
+      limit.id,
+      periodAverages(s, {
+        period: 'day',
+        timeZone: tz,
+        from,
+        to,
+        confidenceInterval: (rule.confidenceIntervalPercent / 100) * rule.elv,
+        excludeStatuses: rule.excludeStatuses,
+        ...(rule.minData ? { minData: rule.minData } : {}),
+      }),
+    );
   }
-  return [...days.values()].sort((a, b) => a.dayStart.localeCompare(b.dayStart));
+  for (const periods of [...channelDays.values(), ...limitDays.values()]) for (const p of periods) dayEnds.set(p.start, p.end);
+  const starts = [...dayEnds.keys()].sort((a, b) => a - b);
+  const index = new Map(starts.map((start, k) => [start, k]));
+  const n = starts.length;
+  const column = () => new Array<number | null>(n).fill(null);
+  const daily: ReviewDto['daily'] = {
+    dayStart: starts.map(iso),
+    dayEnd: starts.map((start) => iso(dayEnds.get(start)!)),
+    statusLegend: [...DAY_STATUS_LEGEND],
+    channels: {},
+    limits: {},
+  };
+  for (const [id, periods] of channelDays) {
+    const cols = { value: column(), status: column(), coverage: column(), validHours: column(), invalidHours: column() };
+    for (const p of periods) {
+      const k = index.get(p.start)!;
+      const operating = p.validHours + p.invalidHours;
+      cols.value[k] = p.measuredValue;
+      cols.status[k] = dayStatus(p);
+      cols.coverage[k] = operating ? roundShare(p.validHours / operating) : null;
+      cols.validHours[k] = p.validHours;
+      cols.invalidHours[k] = p.invalidHours;
+    }
+    daily.channels[id] = cols;
+  }
+  for (const [id, periods] of limitDays) {
+    const cols = { value: column(), validatedValue: column(), status: column(), validHours: column(), invalidHours: column() };
+    for (const p of periods) {
+      const k = index.get(p.start)!;
+      cols.value[k] = p.measuredValue;
+      cols.validatedValue[k] = p.value;
+      cols.status[k] = dayStatus(p);
+      cols.validHours[k] = p.validHours;
+      cols.invalidHours[k] = p.invalidHours;
+    }
+    daily.limits[id] = cols;
+  }
+  return daily;
+}
+
+function dayStatus(p: PeriodValue): number {
+  const code = dayStatusCode.get(toDbWord(p.status));
+  if (code === undefined) throw new Error(`Daily status ${p.status} is missing from the legend.`);
+  return code;
 }
 
 /** O2/CO2 plausibility: hours whose measured CO2 deviates from CO2max·(20.9 − O2)/20.9 by more than the tolerance. */
@@ -373,4 +523,3 @@ function plausibility(sc: StackContext, channelSeries: ReadonlyMap<string, Hourl
   return { plausibility: flagged, plausibilityCheck: check };
 }
 
-export type { StoredChannelHour, StoredLimitHour };

@@ -23,39 +23,57 @@ export interface ReviewChannel {
   intervalMinutes: number;
 }
 
-/** An hour's value of a channel, in the channel's own unit and basis. */
-export interface ChannelHour {
-  value: number | null;
-  /** `valid`, `invalid`, `not_operating` … */
-  status: string;
-  /** Share of the hour covered by valid readings, 0–1. */
-  coverage: number | null;
-  reason: string | null;
+/**
+ * The hourly and daily series travel as columns: per channel and per limit one array per field,
+ * index i describing the i-th hour (day). Statuses and reasons are indexes into the legend sent
+ * beside them; a null status means no stored value for that hour (the other fields are null too).
+ * `features/review/review-series.ts` reads them for the chart and the table.
+ */
+export type Column = (number | null)[];
+
+/** A channel's hours, in the channel's own unit and basis. */
+export interface HourlyChannelColumns {
+  value: Column;
+  /** Index in `statusLegend` (`valid`, `invalid`, `not_operating` …). */
+  status: Column;
+  /** Share of the hour covered by valid readings, 0–1, rounded to 0.001. */
+  coverage: Column;
+  /** Index in `reasonLegend`; 0 is `none`. */
+  reason: Column;
 }
 
-/** An hour's value in the limit's unit, basis and reference O2. */
-export interface LimitHour {
-  value: number | null;
-  status: string;
-  reason: string | null;
-  o2PercentDry: number | null;
-  massKgPerHour: number | null;
+/** A limit's hours in the limit's unit, basis and reference O2. */
+export interface HourlyLimitColumns {
+  value: Column;
+  status: Column;
+  reason: Column;
+  /** Only when asked for with `derivation`: the O2 each hour was corrected with, and its mass rate. */
+  o2PercentDry?: Column;
+  massKgPerHour?: Column;
 }
 
-export interface ReviewHour {
-  /** ISO 8601 UTC instant the hour starts. */
-  hourStart: string;
-  channels: Record<string, ChannelHour>;
-  limits: Record<string, LimitHour>;
+/**
+ * The hours of the period on a regular UTC grid: hour i starts at `fromMs + i · stepMs` (epoch ms),
+ * i < count. Channels and limits without a stored hour in the period are left out.
+ */
+export interface ReviewHourly {
+  fromMs: number;
+  stepMs: number;
+  count: number;
+  statusLegend: string[];
+  reasonLegend: string[];
+  channels: Record<string, HourlyChannelColumns>;
+  limits: Record<string, HourlyLimitColumns>;
 }
 
-export interface ReviewDay {
-  /** The site's local midnights that bound the day, as UTC instants. */
-  dayStart: string;
-  dayEnd: string;
-  channels: Record<string, { value: number | null; status: string; coverage: number | null; validHours: number; invalidHours: number }>;
+/** The site's local calendar days, each bounded by its two local midnights (UTC instants). */
+export interface ReviewDaily {
+  dayStart: string[];
+  dayEnd: string[];
+  statusLegend: string[];
+  channels: Record<string, { value: Column; status: Column; coverage: Column; validHours: Column; invalidHours: Column }>;
   /** `validatedValue` is the daily value after the confidence interval is subtracted, where the limit asks for it. */
-  limits: Record<string, { value: number | null; validatedValue: number | null; status: string; validHours: number; invalidHours: number }>;
+  limits: Record<string, { value: Column; validatedValue: Column; status: Column; validHours: Column; invalidHours: Column }>;
 }
 
 /** A run of periods above the ELV (an exceedance) or above the near-miss share of it. */
@@ -115,8 +133,8 @@ export interface Review {
   /** The site's IANA time zone: days and months follow its calendar. */
   timeZone: string;
   channels: ReviewChannel[];
-  hourly: ReviewHour[];
-  daily: ReviewDay[];
+  hourly: ReviewHourly;
+  daily: ReviewDaily;
   limits: ReviewLimit[];
   plausibility: PlausibilityFlag[];
   plausibilityCheck: { co2MaxPercentDry: number | null; tolerancePercent: number; hoursChecked: number; note: string | null };

@@ -3,11 +3,12 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatPaginatorModule } from '@angular/material/paginator';
 import { MatTableModule } from '@angular/material/table';
 
-import type { Review, ReviewHour } from '../../../core/api/review-api';
+import type { Review } from '../../../core/api/review-api';
 import { ClientTable } from '../../../shared/client-table';
 import { formatNumber } from '../../../shared/format-number';
 import { unitLabel } from '../../../shared/setup-labels';
 import { formatZoned } from '../../../shared/time/zoned-time';
+import { HourRow, hourRows } from '../review-series';
 
 const statusLabels: Record<string, string> = {
   valid: 'Valid',
@@ -55,8 +56,9 @@ export class HourlyTable {
   protected readonly columns = computed(() => ['hour', 'value', 'status', 'coverage', ...this.limits().map((l) => `limit-${l.id}`), 'drill']);
   protected readonly unitLabel = unitLabel;
 
-  protected readonly table = new ClientTable<ReviewHour>({
-    rows: computed(() => this.review().hourly),
+  protected readonly table = new ClientTable<HourRow>({
+    // Rows for this channel and its limits only, built once per answer from the columns.
+    rows: computed(() => hourRows(this.review(), this.channelId(), this.limits().map((l) => l.id))),
     filter: signal(''),
     text: (row) => row.hourStart,
     sortValue: (row) => row.hourStart,
@@ -65,7 +67,7 @@ export class HourlyTable {
 
   protected readonly pageSizeOptions = [24, 48, 168];
 
-  protected coverageText(row: ReviewHour): string {
+  protected coverageText(row: HourRow): string {
     const coverage = row.channels[this.channelId()]?.coverage;
     return coverage === null || coverage === undefined ? '—' : `${formatNumber(coverage * 100, 0)} %`;
   }

@@ -8,6 +8,7 @@ import type { Review } from '../../../core/api/review-api';
 import { channelLabel } from '../../../shared/channel-label';
 import { unitLabel } from '../../../shared/setup-labels';
 import { formatZoned } from '../../../shared/time/zoned-time';
+import { dailyPoints, hourlyPoints, invalidRanges } from '../review-series';
 
 const hourMs = 3_600_000;
 
@@ -21,22 +22,6 @@ const colours = {
 };
 
 type Point = ScatterDataPoint;
-
-/** Runs of consecutive hours whose status is not valid, as [start, end) in epoch ms. */
-export function invalidRanges(review: Review, channelId: string | null, limitId: string | null): [number, number][] {
-  const ranges: [number, number][] = [];
-  for (const row of review.hourly) {
-    const channelStatus = channelId ? row.channels[channelId]?.status : undefined;
-    const limitStatus = limitId ? row.limits[limitId]?.status : undefined;
-    const invalid = (channelStatus !== undefined && channelStatus !== 'valid') || (limitStatus !== undefined && limitStatus !== 'valid');
-    if (!invalid) continue;
-    const start = Date.parse(row.hourStart);
-    const last = ranges[ranges.length - 1];
-    if (last && last[1] === start) last[1] = start + hourMs;
-    else ranges.push([start, start + hourMs]);
-  }
-  return ranges;
-}
 
 /**
  * Raw and corrected hourly values, the daily averages and the ELV line over the period, with
@@ -77,8 +62,7 @@ export class ReviewChart {
     if (channel) {
       datasets.push({
         label: `Hourly, as measured (${unitLabel(channel.unit)}, ${channel.basis})`,
-        // NaN, not null, marks an hour without a value: with parsing off, Chart.js leaves a gap there.
-        data: review.hourly.map((row) => ({ x: Date.parse(row.hourStart), y: row.channels[channel.id]?.value ?? NaN })),
+        data: hourlyPoints(review.hourly, review.hourly.channels[channel.id]?.value),
         yAxisID: limit ? 'measured' : 'y',
         borderColor: colours.measured,
         backgroundColor: colours.measured,
@@ -91,7 +75,7 @@ export class ReviewChart {
       const unit = unitLabel(limit.unit);
       datasets.push({
         label: `Hourly, corrected (${unit}${limit.referenceO2Percent !== null ? `, ${limit.referenceO2Percent} % O2` : ''})`,
-        data: review.hourly.map((row) => ({ x: Date.parse(row.hourStart), y: row.limits[limit.id]?.value ?? NaN })),
+        data: hourlyPoints(review.hourly, review.hourly.limits[limit.id]?.value),
         yAxisID: 'y',
         borderColor: colours.corrected,
         backgroundColor: colours.corrected,
@@ -99,7 +83,7 @@ export class ReviewChart {
         pointRadius: 0,
         spanGaps: false,
       });
-      const daily = review.daily.map((row) => ({ x: Date.parse(row.dayStart), y: row.limits[limit.id]?.value ?? NaN }));
+      const daily = dailyPoints(review, limit.id);
       // The step of the last day runs to the end of the period.
       if (daily.length) daily.push({ x: Date.parse(review.to), y: daily[daily.length - 1].y });
       datasets.push({

@@ -18,7 +18,7 @@ import { Me, Role } from '../../../core/api/auth-api';
 import { RawReading } from '../../../core/api/review-api';
 import { Auth } from '../../../core/auth/auth';
 import { meAs } from '../../../testing/me-fixtures';
-import { readingsFixture, reviewFixture, site, stack } from '../testing/review-fixtures';
+import { emptyDailyFixture, emptyHourlyFixture, readingsFixture, reviewFixture, site, stack } from '../testing/review-fixtures';
 import { ReviewPage } from './review-page';
 
 async function settle(fixture: ComponentFixture<unknown>): Promise<void> {
@@ -123,7 +123,14 @@ describe('ReviewPage', () => {
     // October in Europe/Berlin: summer time until the 25th, so it starts at 22:00 UTC.
     expect(previous.request.params.get('from')).toBe('2026-09-30T22:00:00.000Z');
     expect(previous.request.params.get('to')).toBe('2026-10-31T23:00:00.000Z');
-    previous.flush(reviewFixture({ from: '2026-09-30T22:00:00.000Z', to: '2026-10-31T23:00:00.000Z', hourly: [], daily: [] }));
+    previous.flush(
+      reviewFixture({
+        from: '2026-09-30T22:00:00.000Z',
+        to: '2026-10-31T23:00:00.000Z',
+        hourly: emptyHourlyFixture('2026-09-30T22:00:00.000Z', 745),
+        daily: emptyDailyFixture,
+      }),
+    );
     await settle(fixture);
     expect(text(fixture)).toContain('No readings are stored for this stack in October 2026.');
   });

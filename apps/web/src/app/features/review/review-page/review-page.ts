@@ -20,6 +20,7 @@ import { HourlyTable } from '../hourly-table/hourly-table';
 import { LimitVerdicts } from '../limit-verdicts/limit-verdicts';
 import { ReadingsPanel } from '../readings-panel/readings-panel';
 import { ReviewChart } from '../review-chart/review-chart';
+import { hasValues } from '../review-series';
 
 interface StackContext {
   stack: StackWithChannels;
@@ -105,7 +106,10 @@ export class ReviewPage {
       .slice()
       .sort((a, b) => Math.abs(b.deviationPercent) - Math.abs(a.deviationPercent)),
   );
-  protected readonly hasData = computed(() => (this.review()?.hourly ?? []).some((row) => Object.values(row.channels).some((v) => v.value !== null)));
+  protected readonly hasData = computed(() => {
+    const review = this.review();
+    return review ? hasValues(review) : false;
+  });
 
   protected readonly channelLabel = channelLabel;
   protected readonly formatNumber = formatNumber;

@@ -1,5 +1,5 @@
 import type { Limit } from '../../../core/api/permits-api';
-import type { Readings, Review, ReviewHour } from '../../../core/api/review-api';
+import type { Readings, Review, ReviewDaily, ReviewHourly } from '../../../core/api/review-api';
 import type { Site, StackWithChannels } from '../../../core/api/sites-api';
 import { noxChannel, o2Channel } from '../../imports/testing/import-fixtures';
 
@@ -62,22 +62,48 @@ export const noxLimit: Limit = {
   updatedAt: '2026-10-01T00:00:00Z',
 };
 
-function hour(index: number): ReviewHour {
-  const hourStart = new Date(Date.parse('2026-10-31T23:00:00Z') + index * 3_600_000).toISOString();
-  const invalid = index === 5;
+const statusLegend = ['valid', 'substituted', 'invalid', 'not_operating', 'startup_shutdown'];
+const reasonLegend = ['none', 'no_readings', 'fault'];
+const code = (legend: string[], word: string) => legend.indexOf(word);
+
+/**
+ * `hours` hours from 1 November 00:00 in Berlin (31 October 23:00 UTC), as the API sends them: NOx
+ * at 60 + i mg/Nm3 and the limit at 61 + i, except hour 5, which is not valid (20 % coverage).
+ */
+export function hourlyFixture(hours = 48): ReviewHourly {
+  const invalid = (i: number) => i === 5;
+  const column = <T>(at: (i: number) => T) => Array.from({ length: hours }, (_, i) => at(i));
   return {
-    hourStart,
+    fromMs: Date.parse('2026-10-31T23:00:00Z'),
+    stepMs: 3_600_000,
+    count: hours,
+    statusLegend,
+    reasonLegend,
     channels: {
-      'ch-nox': { value: invalid ? null : 60 + index, status: invalid ? 'invalid' : 'valid', coverage: invalid ? 0.2 : 1, reason: null },
-      'ch-o2': { value: 3.2, status: 'valid', coverage: 1, reason: null },
+      'ch-nox': {
+        value: column((i) => (invalid(i) ? null : 60 + i)),
+        status: column((i) => code(statusLegend, invalid(i) ? 'invalid' : 'valid')),
+        coverage: column((i) => (invalid(i) ? 0.2 : 1)),
+        reason: column((i) => code(reasonLegend, invalid(i) ? 'fault' : 'none')),
+      },
+      'ch-o2': { value: column(() => 3.2), status: column(() => 0), coverage: column(() => 1), reason: column(() => 0) },
     },
     limits: {
-      'lim-nox-day': { value: invalid ? null : 61 + index, status: invalid ? 'invalid' : 'valid', reason: null, o2PercentDry: 3.2, massKgPerHour: null },
+      'lim-nox-day': {
+        value: column((i) => (invalid(i) ? null : 61 + i)),
+        status: column((i) => code(statusLegend, invalid(i) ? 'invalid' : 'valid')),
+        reason: column((i) => code(reasonLegend, invalid(i) ? 'fault' : 'none')),
+      },
     },
   };
 }
 
-const dayLimit = (value: number) => ({ 'lim-nox-day': { value, validatedValue: value * 0.8, status: 'valid', validHours: 24, invalidHours: 0 } });
+/** A period with no stored hour at all. */
+export function emptyHourlyFixture(fromIso: string, hours: number): ReviewHourly {
+  return { fromMs: Date.parse(fromIso), stepMs: 3_600_000, count: hours, statusLegend, reasonLegend, channels: {}, limits: {} };
+}
+
+export const emptyDailyFixture: ReviewDaily = { dayStart: [], dayEnd: [], statusLegend: ['valid', 'invalid', 'not_operating', 'incomplete'], channels: {}, limits: {} };
 
 const event = (start: string, end: string, peak: number) => ({ start, end, peak, peakAt: start, percentOfElv: peak, threshold: 100, periodCount: 1 });
 
@@ -88,11 +114,14 @@ export function reviewFixture(overrides: Partial<Review> = {}): Review {
     to: '2026-11-30T23:00:00.000Z',
     timeZone: 'Europe/Berlin',
     channels: [noxChannel, o2Channel].map(({ id, parameter, unit, basis, conditions, intervalMinutes }) => ({ id, parameter, unit, basis, conditions, intervalMinutes })),
-    hourly: Array.from({ length: 48 }, (_, i) => hour(i)),
-    daily: [
-      { dayStart: '2026-10-31T23:00:00.000Z', dayEnd: '2026-11-01T23:00:00.000Z', channels: {}, limits: dayLimit(72.4) },
-      { dayStart: '2026-11-01T23:00:00.000Z', dayEnd: '2026-11-02T23:00:00.000Z', channels: {}, limits: dayLimit(121.5) },
-    ],
+    hourly: hourlyFixture(),
+    daily: {
+      dayStart: ['2026-10-31T23:00:00.000Z', '2026-11-01T23:00:00.000Z'],
+      dayEnd: ['2026-11-01T23:00:00.000Z', '2026-11-02T23:00:00.000Z'],
+      statusLegend: emptyDailyFixture.statusLegend,
+      channels: {},
+      limits: { 'lim-nox-day': { value: [72.4, 121.5], validatedValue: [72.4 * 0.8, 121.5 * 0.8], status: [0, 0], validHours: [24, 24], invalidHours: [0, 0] } },
+    },
     limits: [
       {
         limit: noxLimit,
