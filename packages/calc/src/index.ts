@@ -22,5 +22,6 @@ export * from './hourly';
 export * from './periods';
 export * from './averaging';
 export * from './limits';
+export * from './limits/describe';
 export * from './compliance';
 export * from './headroom';

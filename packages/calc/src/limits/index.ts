@@ -5,6 +5,7 @@
  */
 import { z } from 'zod';
 import { CalcInputError } from '../errors';
+import { IED_LCP_CONFIDENCE_INTERVAL_PERCENT, type IedLcpPollutant } from './confidence-interval';
 
 /** Hour statuses a rule may leave out of its averages. */
 export const EXCLUDABLE_STATUSES = ['startup-shutdown', 'substituted'] as const;
@@ -141,12 +142,7 @@ export function parseLimitRule(input: unknown): LimitRule {
 // Presets
 // ---------------------------------------------------------------------------------------------
 
-/**
- * 95 % confidence interval of a single measured result, % of the ELV, for large combustion
- * plants (IED 2010/75/EU Annex V Part 3 point 9 [pub]).
- */
-export const IED_LCP_CONFIDENCE_INTERVAL_PERCENT = { CO: 10, SO2: 20, NOx: 20, dust: 30 } as const;
-export type IedLcpPollutant = keyof typeof IED_LCP_CONFIDENCE_INTERVAL_PERCENT;
+export { IED_LCP_CONFIDENCE_INTERVAL_PERCENT, type IedLcpPollutant } from './confidence-interval';
 
 const IED_SOURCE = 'Directive 2010/75/EU (IED) Annex V Part 3 points 9–11 and Part 4 point 1';
 

@@ -1,3 +1,5 @@
+import { LIMIT_UNITS_WITHOUT_REFERENCE_O2 } from '@flueledger/calc';
+
 import type { FFactorSource, FuelKind, FuelType } from '../core/api/fuels-api';
 import type { AveragingPeriod, LimitUnit, Pollutant } from '../core/api/permits-api';
 import type { Basis, ChannelParameter, ChannelUnit, Conditions, Regime, UnitType } from '../core/api/sites-api';
@@ -82,6 +84,11 @@ export function unitLabel(unit: ChannelUnit | LimitUnit | string): string {
   }
 }
 
+/** An analyser's range as people read it ("0 – 25 %"), or '' when it is not known. */
+export function analyserRangeLabel(channel: { unit: ChannelUnit; rangeMin: number | null; rangeMax: number | null }): string {
+  return channel.rangeMin !== null && channel.rangeMax !== null ? `${channel.rangeMin} – ${channel.rangeMax} ${unitLabel(channel.unit)}` : '';
+}
+
 export const basisLabels: Record<Basis, string> = { dry: 'Dry basis', wet: 'Wet basis' };
 export const conditionsLabels: Record<Conditions, string> = {
   standard: 'Standard conditions',
@@ -129,8 +136,8 @@ export const fFactorSourceLabels: Record<FFactorSource, string> = {
 
 export const pollutants: readonly Pollutant[] = ['NOx', 'NO', 'NO2', 'SO2', 'CO', 'dust', 'HCl', 'HF', 'TOC', 'NH3', 'Hg', 'CO2'];
 export const limitUnits: readonly LimitUnit[] = ['mg/Nm3', 'ppm', 'ug/Nm3', 'lb/MMBtu', 'ng/J', 'kg/h', 't/yr'];
-/** Limits on heat input or mass carry no reference O2 (mirrors the API's UNITS_WITHOUT_O2). */
-export const limitUnitsWithoutO2: readonly LimitUnit[] = ['lb/MMBtu', 'ng/J', 'kg/h', 't/yr'];
+/** Limits on heat input or mass carry no reference O2 (the list the limit's sentence follows). */
+export const limitUnitsWithoutO2: readonly LimitUnit[] = LIMIT_UNITS_WITHOUT_REFERENCE_O2;
 
 export const periodLabels: Record<AveragingPeriod, string> = {
   half_hour: 'Half-hourly average',

@@ -10,16 +10,13 @@ import {
   Validators,
 } from '@angular/forms';
 import type { GasComponent, UltimateAnalysis } from '@flueledger/calc';
-import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { MatPaginatorModule } from '@angular/material/paginator';
 import { MatSelectModule } from '@angular/material/select';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSortModule } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
-import { Router, RouterLink } from '@angular/router';
+import { Router } from '@angular/router';
 import { debounceTime, firstValueFrom, map } from 'rxjs';
 
 import {
@@ -33,13 +30,17 @@ import {
   UltimateAnalysisInput,
 } from '../../../core/api/fuels-api';
 import { SiteDetail, SitesApi } from '../../../core/api/sites-api';
-import { Auth } from '../../../core/auth/auth';
 import { CalcCaution } from '../../../shared/calc-caution';
 import { ClientTable } from '../../../shared/client-table';
 import { ConflictNotice } from '../../../shared/conflict-notice';
-import { classifySaveError, fieldError } from '../../../shared/form-errors';
-import { ReadOnlyField, ReadOnlyFields } from '../../../shared/read-only-fields';
+import { FormActions } from '../../../shared/form-actions';
+import { fieldError } from '../../../shared/form-errors';
 import { formatNumber } from '../../../shared/format-number';
+import { LoadState } from '../../../shared/load-state';
+import { PageHeader } from '../../../shared/page-header';
+import { ReadOnlyField, ReadOnlyFields } from '../../../shared/read-only-fields';
+import { RecordEditor } from '../../../shared/record-editor';
+import { TablePager } from '../../../shared/table-pager';
 import { fFactorSourceLabels, fuelKindLabels, fuelTypeLabels, kindOfFuelType } from '../../../shared/setup-labels';
 import { HasUnsavedChanges, warnBeforeUnload } from '../../../shared/unsaved-changes';
 import {
@@ -94,19 +95,21 @@ interface AnalysisRow {
   imports: [
     DecimalPipe,
     ReactiveFormsModule,
-    RouterLink,
     MatFormFieldModule,
     MatInputModule,
     MatSelectModule,
-    MatButtonModule,
     MatIconModule,
     MatTableModule,
     MatSortModule,
-    MatPaginatorModule,
     CalcCaution,
     ConflictNotice,
+    FormActions,
+    LoadState,
+    PageHeader,
     ReadOnlyFields,
+    TablePager,
   ],
+  providers: [RecordEditor],
   templateUrl: './fuel-editor.html',
   styleUrl: './fuel-editor.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -115,16 +118,14 @@ interface AnalysisRow {
 export class FuelEditor implements HasUnsavedChanges {
   private readonly fuelsApi = inject(FuelsApi);
   private readonly sitesApi = inject(SitesApi);
-  private readonly auth = inject(Auth);
   private readonly router = inject(Router);
-  private readonly snackBar = inject(MatSnackBar);
+  protected readonly editor = inject(RecordEditor);
   private readonly fb = inject(NonNullableFormBuilder);
 
   readonly siteId = input.required<string>();
   /** Absent on …/fuels/new. */
   readonly fuelId = input<string>();
 
-  protected readonly canEdit = computed(() => this.auth.me()?.permissions.includes('site:write') ?? false);
   protected readonly fuelTypes = Object.keys(fuelTypeLabels) as FuelType[];
   protected readonly fuelTypeLabels = fuelTypeLabels;
   protected readonly fFactorSources = Object.keys(fFactorSourceLabels) as FFactorSource[];
@@ -164,9 +165,6 @@ export class FuelEditor implements HasUnsavedChanges {
   protected readonly site = signal<SiteDetail | null>(null);
   protected readonly fuel = signal<Fuel | null>(null);
   private readonly analyses = signal<FuelAnalysis[]>([]);
-  protected readonly status = signal<'loading' | 'ready' | 'failed'>('loading');
-  protected readonly saving = signal(false);
-  protected readonly conflict = signal(false);
 
   private readonly formValue = toSignal(this.form.valueChanges.pipe(map(() => this.form.getRawValue())), {
     initialValue: this.form.getRawValue(),
@@ -297,7 +295,7 @@ export class FuelEditor implements HasUnsavedChanges {
   }
 
   hasUnsavedChanges(): boolean {
-    return this.canEdit() && this.form.dirty && !this.saving();
+    return this.editor.hasUnsavedChanges(this.form);
   }
 
   protected onBeforeUnload(event: BeforeUnloadEvent): void {
@@ -308,9 +306,8 @@ export class FuelEditor implements HasUnsavedChanges {
     return this.load(this.siteId(), this.fuelId());
   }
 
-  private async load(siteId: string, fuelId: string | undefined): Promise<void> {
-    this.status.set('loading');
-    try {
+  private load(siteId: string, fuelId: string | undefined): Promise<void> {
+    return this.editor.load(async () => {
       const [site, fuel, analyses] = await Promise.all([
         firstValueFrom(this.sitesApi.getSite(siteId)),
         fuelId ? firstValueFrom(this.fuelsApi.getFuel(fuelId)) : Promise.resolve(null),
@@ -320,11 +317,7 @@ export class FuelEditor implements HasUnsavedChanges {
       this.fuel.set(fuel);
       this.analyses.set(analyses?.items ?? []);
       if (fuel) this.fillFrom(fuel);
-      this.conflict.set(false);
-      this.status.set('ready');
-    } catch {
-      this.status.set('failed');
-    }
+    });
   }
 
   private fillFrom(fuel: Fuel): void {
@@ -366,22 +359,17 @@ export class FuelEditor implements HasUnsavedChanges {
     return body;
   }
 
-  protected async save(): Promise<void> {
+  protected save(): Promise<void> {
     this.showCompositionError.set(true);
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    const value = this.form.getRawValue();
-    this.saving.set(true);
-    try {
+    return this.editor.save(this.form, async () => {
+      const value = this.form.getRawValue();
       const current = this.fuel();
       if (!current) {
         await firstValueFrom(
           this.fuelsApi.createFuel(this.siteId(), { name: value.name.trim(), fuelType: value.fuelType, analysis: this.analysisBody() }),
         );
         this.form.markAsPristine();
-        this.snackBar.open(`Fuel “${value.name.trim()}” added with its analysis.`, 'Close', { duration: 5000 });
+        this.editor.notify(`Fuel “${value.name.trim()}” added with its analysis.`);
         await this.router.navigate(['/sites', this.siteId()]);
         return;
       }
@@ -394,26 +382,16 @@ export class FuelEditor implements HasUnsavedChanges {
       }
       if (analysisChanged) await firstValueFrom(this.fuelsApi.addAnalysis(current.id, this.analysisBody()));
       this.form.markAsPristine();
-      this.snackBar.open(analysisChanged ? 'Fuel saved with a new analysis.' : 'Fuel saved.', 'Close', { duration: 5000 });
+      this.editor.notify(analysisChanged ? 'Fuel saved with a new analysis.' : 'Fuel saved.');
       await this.load(this.siteId(), current.id);
-    } catch (error) {
-      if (classifySaveError(error, this.form) === 'stale') this.conflict.set(true);
-    } finally {
-      this.saving.set(false);
-    }
+    });
   }
 
   protected async archive(): Promise<void> {
     const fuel = this.fuel();
     if (!fuel) return;
-    try {
-      await firstValueFrom(this.fuelsApi.archiveFuel(fuel.id, fuel.version));
-      this.form.markAsPristine();
-      this.snackBar.open(`Fuel “${fuel.name}” archived. Its analyses are kept.`, 'Close', { duration: 5000 });
-      await this.router.navigate(['/sites', this.siteId()]);
-    } catch (error) {
-      if (classifySaveError(error) === 'stale') this.conflict.set(true);
-    }
+    const message = `Fuel “${fuel.name}” archived. Its analyses are kept.`;
+    await this.editor.archive(this.fuelsApi.archiveFuel(fuel.id, fuel.version), this.form, message, this.siteId());
   }
 
   protected onAnalysisInput(): void {

@@ -7,7 +7,12 @@ import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/materia
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
+import { describeLimit } from '@flueledger/calc';
 import { firstValueFrom, map } from 'rxjs';
+
+// A subpath import on purpose: through the package index this constant comes with the calc
+// package's zod limit schemas (~450 kB) into this page, which only pre-fills one field with it.
+import { IED_LCP_CONFIDENCE_INTERVAL_PERCENT } from '@flueledger/calc/confidence-interval';
 
 import {
   AveragingPeriod,
@@ -22,7 +27,8 @@ import {
 import { Basis, SiteDetail } from '../../../core/api/sites-api';
 import { ConflictNotice } from '../../../shared/conflict-notice';
 import { datesInOrder } from '../../../shared/date-range';
-import { classifySaveError, fieldError } from '../../../shared/form-errors';
+import { fieldError } from '../../../shared/form-errors';
+import { RecordEditor } from '../../../shared/record-editor';
 import {
   basisLabels,
   limitUnits,
@@ -33,7 +39,6 @@ import {
   pollutants,
   unitLabel,
 } from '../../../shared/setup-labels';
-import { limitSummary } from '../limit-summary';
 
 export interface LimitDialogData {
   permitId: string;
@@ -45,14 +50,6 @@ export interface LimitDialogData {
 }
 
 type CriterionType = LimitCriterion['type'];
-
-/**
- * 95 % confidence intervals, % of the ELV, of large combustion plants: IED 2010/75/EU Annex V
- * Part 3 point 9 [pub]. The same table as @flueledger/calc's IED_LCP_CONFIDENCE_INTERVAL_PERCENT,
- * kept here because importing it would bring the calc package's limit schemas (and zod, ~400 kB)
- * into this page only to pre-fill one field.
- */
-const IED_LCP_CONFIDENCE_INTERVAL_PERCENT: Partial<Record<Pollutant, number>> = { CO: 10, SO2: 20, NOx: 20, dust: 30 };
 
 /** Adds or changes one emission limit of a permit; closes with the saved limit. */
 @Component({
@@ -67,6 +64,7 @@ const IED_LCP_CONFIDENCE_INTERVAL_PERCENT: Partial<Record<Pollutant, number>> = 
     MatButtonModule,
     ConflictNotice,
   ],
+  providers: [RecordEditor],
   templateUrl: './limit-dialog.html',
   styleUrl: './limit-dialog.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -75,6 +73,7 @@ export class LimitDialog {
   private readonly api = inject(PermitsApi);
   private readonly dialogRef = inject<MatDialogRef<LimitDialog, Limit>>(MatDialogRef);
   private readonly fb = inject(NonNullableFormBuilder);
+  protected readonly editor = inject(RecordEditor);
   protected readonly data = inject<LimitDialogData>(MAT_DIALOG_DATA);
 
   protected readonly pollutants = pollutants;
@@ -149,15 +148,13 @@ export class LimitDialog {
   protected readonly lengthUnit = computed(() => (this.value().period === 'rolling_days' ? 'days' : 'hours'));
   protected readonly withShare = computed(() => this.value().criterionType === 'share_of_periods');
   protected readonly defaultsSource = signal<string | null>(null);
-  protected readonly saving = signal(false);
-  protected readonly conflict = signal(false);
 
   /** The sentence the API will store, as the person types; null while a number is missing. */
   protected readonly summary = computed(() => {
     const v = this.value();
     if (v.elv === null || v.criterionFactorPercent === null) return null;
     if (v.criterionType === 'share_of_periods' && v.criterionSharePercent === null) return null;
-    return limitSummary({ ...this.body(v), pollutant: v.pollutant });
+    return describeLimit({ ...this.body(v), pollutant: v.pollutant });
   });
 
   constructor() {
@@ -227,7 +224,7 @@ export class LimitDialog {
   private prefillConfidenceInterval(): void {
     const control = this.form.controls.confidenceIntervalPercent;
     if (!this.isEu || control.dirty) return;
-    const ci = IED_LCP_CONFIDENCE_INTERVAL_PERCENT[this.form.controls.pollutant.value];
+    const ci = (IED_LCP_CONFIDENCE_INTERVAL_PERCENT as Partial<Record<Pollutant, number>>)[this.form.controls.pollutant.value];
     control.setValue(ci ?? null);
   }
 
@@ -260,15 +257,10 @@ export class LimitDialog {
     };
   }
 
-  protected async save(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    const value = this.form.getRawValue();
-    const body = this.body(value);
-    this.saving.set(true);
-    try {
+  protected save(): Promise<void> {
+    return this.editor.save(this.form, async () => {
+      const value = this.form.getRawValue();
+      const body = this.body(value);
       let saved: Limit;
       if (this.limit) {
         saved = await firstValueFrom(this.api.updateLimit(this.limit.id, { ...body, version: this.limit.version }));
@@ -279,11 +271,7 @@ export class LimitDialog {
         );
       }
       this.dialogRef.close(saved);
-    } catch (error) {
-      if (classifySaveError(error, this.form) === 'stale') this.conflict.set(true);
-    } finally {
-      this.saving.set(false);
-    }
+    });
   }
 
   protected reload(): void {

@@ -7,24 +7,28 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { MatPaginatorModule } from '@angular/material/paginator';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSortModule } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
-import { MatTooltipModule } from '@angular/material/tooltip';
-import { Router, RouterLink } from '@angular/router';
+import { Router } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 
 import { Limit, MAX_PERMIT_DOCUMENT_BYTES, PermitDetail, PermitInput, PermitsApi } from '../../../core/api/permits-api';
 import { SiteDetail, SitesApi } from '../../../core/api/sites-api';
-import { Auth } from '../../../core/auth/auth';
 import { ClientTable } from '../../../shared/client-table';
 import { ConflictNotice } from '../../../shared/conflict-notice';
 import { datesInOrder } from '../../../shared/date-range';
+import { FilterField } from '../../../shared/filter-field';
+import { FormActions } from '../../../shared/form-actions';
 import { classifySaveError, fieldError } from '../../../shared/form-errors';
+import { LoadState } from '../../../shared/load-state';
+import { PageHeader } from '../../../shared/page-header';
 import { ReadOnlyField, ReadOnlyFields } from '../../../shared/read-only-fields';
+import { RecordEditor } from '../../../shared/record-editor';
+import { RowActions } from '../../../shared/row-actions';
 import { parameterLabels, periodLabels, unitLabel } from '../../../shared/setup-labels';
+import { TablePager } from '../../../shared/table-pager';
+import { upsertById } from '../../../shared/upsert-by-id';
 import { HasUnsavedChanges, warnBeforeUnload } from '../../../shared/unsaved-changes';
 import { LimitDialog, LimitDialogData } from '../limit-dialog/limit-dialog';
 
@@ -58,19 +62,23 @@ export function permitFileProblem(file: File): string | null {
   imports: [
     DecimalPipe,
     ReactiveFormsModule,
-    RouterLink,
     MatFormFieldModule,
     MatInputModule,
     MatButtonModule,
     MatIconModule,
     MatTableModule,
     MatSortModule,
-    MatPaginatorModule,
     MatProgressBarModule,
-    MatTooltipModule,
     ConflictNotice,
+    FilterField,
+    FormActions,
+    LoadState,
+    PageHeader,
     ReadOnlyFields,
+    RowActions,
+    TablePager,
   ],
+  providers: [RecordEditor],
   templateUrl: './permit-editor.html',
   styleUrl: './permit-editor.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -79,17 +87,15 @@ export function permitFileProblem(file: File): string | null {
 export class PermitEditor implements HasUnsavedChanges {
   private readonly permitsApi = inject(PermitsApi);
   private readonly sitesApi = inject(SitesApi);
-  private readonly auth = inject(Auth);
   private readonly router = inject(Router);
   private readonly dialog = inject(MatDialog);
-  private readonly snackBar = inject(MatSnackBar);
+  protected readonly editor = inject(RecordEditor);
   private readonly fb = inject(NonNullableFormBuilder);
 
   readonly siteId = input.required<string>();
   /** Absent on …/permits/new. */
   readonly permitId = input<string>();
 
-  protected readonly canEdit = computed(() => this.auth.me()?.permissions.includes('site:write') ?? false);
   protected readonly fieldError = fieldError;
 
   protected readonly form = this.fb.group(
@@ -104,9 +110,6 @@ export class PermitEditor implements HasUnsavedChanges {
 
   protected readonly site = signal<SiteDetail | null>(null);
   protected readonly permit = signal<PermitDetail | null>(null);
-  protected readonly status = signal<'loading' | 'ready' | 'failed'>('loading');
-  protected readonly saving = signal(false);
-  protected readonly conflict = signal(false);
   protected readonly filter = signal('');
   protected readonly upload = signal<{ fileName: string; percent: number } | null>(null);
   protected readonly uploadProblem = signal<string | null>(null);
@@ -155,7 +158,7 @@ export class PermitEditor implements HasUnsavedChanges {
 
   protected readonly limitColumns = computed(() => {
     const columns = ['target', 'pollutant', 'elv', 'period', 'summary'];
-    return this.canEdit() ? [...columns, 'actions'] : columns;
+    return this.editor.canEdit() ? [...columns, 'actions'] : columns;
   });
 
   /** Dialogs still open when the page goes away close without a result; nothing to refresh then. */
@@ -167,7 +170,7 @@ export class PermitEditor implements HasUnsavedChanges {
   }
 
   hasUnsavedChanges(): boolean {
-    return this.canEdit() && this.form.dirty && !this.saving();
+    return this.editor.hasUnsavedChanges(this.form);
   }
 
   protected onBeforeUnload(event: BeforeUnloadEvent): void {
@@ -178,9 +181,8 @@ export class PermitEditor implements HasUnsavedChanges {
     return this.load(this.siteId(), this.permitId());
   }
 
-  private async load(siteId: string, permitId: string | undefined): Promise<void> {
-    this.status.set('loading');
-    try {
+  private load(siteId: string, permitId: string | undefined): Promise<void> {
+    return this.editor.load(async () => {
       const [site, permit] = await Promise.all([
         firstValueFrom(this.sitesApi.getSite(siteId)),
         permitId ? firstValueFrom(this.permitsApi.getPermit(permitId)) : Promise.resolve(null),
@@ -195,59 +197,38 @@ export class PermitEditor implements HasUnsavedChanges {
           effectiveTo: permit.effectiveTo ?? '',
         });
       }
-      this.conflict.set(false);
-      this.status.set('ready');
-    } catch {
-      this.status.set('failed');
-    }
+    });
   }
 
-  protected async save(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    const value = this.form.getRawValue();
-    const body: PermitInput = {
-      reference: value.reference.trim(),
-      authority: value.authority.trim(),
-      effectiveFrom: value.effectiveFrom,
-      effectiveTo: value.effectiveTo || null,
-    };
-    this.saving.set(true);
-    try {
+  protected save(): Promise<void> {
+    return this.editor.save(this.form, async () => {
+      const value = this.form.getRawValue();
+      const body: PermitInput = {
+        reference: value.reference.trim(),
+        authority: value.authority.trim(),
+        effectiveFrom: value.effectiveFrom,
+        effectiveTo: value.effectiveTo || null,
+      };
       const current = this.permit();
       if (current) {
         const saved = await firstValueFrom(this.permitsApi.updatePermit(current.id, { ...body, version: current.version }));
         this.permit.set({ ...current, ...saved });
         this.form.markAsPristine();
-        this.snackBar.open('Permit saved.', 'Close', { duration: 5000 });
+        this.editor.notify('Permit saved.');
       } else {
         const created = await firstValueFrom(this.permitsApi.createPermit(this.siteId(), body));
         this.form.markAsPristine();
-        this.snackBar.open(`Permit “${created.reference}” added. Now upload its PDF and enter its limits.`, 'Close', {
-          duration: 6000,
-        });
+        this.editor.notify(`Permit “${created.reference}” added. Now upload its PDF and enter its limits.`, 6000);
         await this.router.navigate(['/sites', this.siteId(), 'permits', created.id], { replaceUrl: true });
       }
-    } catch (error) {
-      if (classifySaveError(error, this.form) === 'stale') this.conflict.set(true);
-    } finally {
-      this.saving.set(false);
-    }
+    });
   }
 
   protected async archive(): Promise<void> {
     const permit = this.permit();
     if (!permit) return;
-    try {
-      await firstValueFrom(this.permitsApi.archivePermit(permit.id, permit.version));
-      this.form.markAsPristine();
-      this.snackBar.open(`Permit “${permit.reference}” archived. Its history is kept.`, 'Close', { duration: 5000 });
-      await this.router.navigate(['/sites', this.siteId()]);
-    } catch (error) {
-      if (classifySaveError(error) === 'stale') this.conflict.set(true);
-    }
+    const message = `Permit “${permit.reference}” archived. Its history is kept.`;
+    await this.editor.archive(this.permitsApi.archivePermit(permit.id, permit.version), this.form, message, this.siteId());
   }
 
   protected documentUrl(): string {
@@ -278,7 +259,7 @@ export class PermitEditor implements HasUnsavedChanges {
           const saved = event.body;
           this.permit.update((current) => (current ? { ...current, ...saved, limits: current.limits } : current));
           this.upload.set(null);
-          this.snackBar.open(`Permit PDF “${file.name}” uploaded.`, 'Close', { duration: 5000 });
+          this.editor.notify(`Permit PDF “${file.name}” uploaded.`);
         }
       },
       // The error interceptor has shown why (not a PDF, too large …).
@@ -301,24 +282,15 @@ export class PermitEditor implements HasUnsavedChanges {
       if (limit && !this.destroyed) await this.refreshLimits();
       return;
     }
-    this.permit.update((current) =>
-      current
-        ? {
-            ...current,
-            limits: limit ? current.limits.map((existing) => (existing.id === saved.id ? saved : existing)) : [...current.limits, saved],
-          }
-        : current,
-    );
-    this.snackBar.open(`Limit saved: ${saved.summary}`, 'Close', { duration: 6000 });
+    this.permit.update((current) => (current ? { ...current, limits: upsertById(current.limits, saved) } : current));
+    this.editor.notify(`Limit saved: ${saved.summary}`, 6000);
   }
 
   protected async archiveLimit(limit: Limit): Promise<void> {
     try {
       const archived = await firstValueFrom(this.permitsApi.archiveLimit(limit.id, limit.version));
-      this.permit.update((current) =>
-        current ? { ...current, limits: current.limits.map((existing) => (existing.id === archived.id ? archived : existing)) } : current,
-      );
-      this.snackBar.open('Limit archived. It stays in the permit history.', 'Close', { duration: 5000 });
+      this.permit.update((current) => (current ? { ...current, limits: upsertById(current.limits, archived) } : current));
+      this.editor.notify('Limit archived. It stays in the permit history.');
     } catch (error) {
       if (classifySaveError(error) === 'stale') await this.refreshLimits();
     }
@@ -331,9 +303,9 @@ export class PermitEditor implements HasUnsavedChanges {
     this.permit.update((current) => (current ? { ...current, limits: fresh.limits } : current));
   }
 
-  protected onFilter(event: Event): void {
+  protected onFilter(text: string): void {
     this.limits.pageIndex.set(0);
-    this.filter.set((event.target as HTMLInputElement).value);
+    this.filter.set(text);
   }
 
   protected limitName(row: LimitRow): string {

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { AbstractControl, NonNullableFormBuilder, ReactiveFormsModule, ValidationErrors, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -10,7 +10,8 @@ import { firstValueFrom } from 'rxjs';
 
 import { Basis, Channel, ChannelInput, ChannelParameter, ChannelUnit, Conditions, SitesApi } from '../../../core/api/sites-api';
 import { ConflictNotice } from '../../../shared/conflict-notice';
-import { classifySaveError, fieldError } from '../../../shared/form-errors';
+import { fieldError } from '../../../shared/form-errors';
+import { RecordEditor } from '../../../shared/record-editor';
 import {
   basisLabels,
   channelParameters,
@@ -55,6 +56,7 @@ function rangeInOrder(group: AbstractControl): ValidationErrors | null {
     MatButtonModule,
     ConflictNotice,
   ],
+  providers: [RecordEditor],
   templateUrl: './channel-dialog.html',
   styleUrl: './channel-dialog.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -63,6 +65,7 @@ export class ChannelDialog {
   private readonly api = inject(SitesApi);
   private readonly dialogRef = inject<MatDialogRef<ChannelDialog, Channel>>(MatDialogRef);
   private readonly fb = inject(NonNullableFormBuilder);
+  protected readonly editor = inject(RecordEditor);
   protected readonly data = inject<ChannelDialogData>(MAT_DIALOG_DATA);
 
   protected readonly parameters = channelParameters;
@@ -96,8 +99,6 @@ export class ChannelDialog {
   private readonly unit = toSignal(this.form.controls.unit.valueChanges, { initialValue: this.form.controls.unit.value });
   protected readonly units = computed(() => unitsByParameter[this.parameter()]);
   protected readonly unitText = computed(() => unitLabel(this.unit()));
-  protected readonly saving = signal(false);
-  protected readonly conflict = signal(false);
 
   constructor() {
     // A parameter's units differ (O2 in %, NOx in mg/Nm3 or ppm): keep the unit one that fits.
@@ -108,24 +109,15 @@ export class ChannelDialog {
     });
   }
 
-  protected async save(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    const value = this.form.getRawValue();
-    const body: ChannelInput = { ...value, sourceLabel: value.sourceLabel.trim() || null };
-    this.saving.set(true);
-    try {
+  protected save(): Promise<void> {
+    return this.editor.save(this.form, async () => {
+      const value = this.form.getRawValue();
+      const body: ChannelInput = { ...value, sourceLabel: value.sourceLabel.trim() || null };
       const saved = this.channel
         ? await firstValueFrom(this.api.updateChannel(this.channel.id, { ...body, version: this.channel.version }))
         : await firstValueFrom(this.api.createChannel(this.data.stackId, body));
       this.dialogRef.close(saved);
-    } catch (error) {
-      if (classifySaveError(error, this.form) === 'stale') this.conflict.set(true);
-    } finally {
-      this.saving.set(false);
-    }
+    });
   }
 
   /** The stored channel moved on: close, and let the stack page load the current one. */

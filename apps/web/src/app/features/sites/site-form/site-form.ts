@@ -2,17 +2,19 @@ import { ChangeDetectionStrategy, Component, computed, effect, inject, input, si
 import { toSignal } from '@angular/core/rxjs-interop';
 import { AbstractControl, NonNullableFormBuilder, ReactiveFormsModule, ValidationErrors, Validators } from '@angular/forms';
 import { MatAutocompleteModule } from '@angular/material/autocomplete';
-import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { MatSnackBar } from '@angular/material/snack-bar';
-import { Router, RouterLink } from '@angular/router';
+import { Router } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 
 import { Regime, Site, SiteInput, SitesApi } from '../../../core/api/sites-api';
 import { ConflictNotice } from '../../../shared/conflict-notice';
-import { classifySaveError, fieldError } from '../../../shared/form-errors';
+import { FormActions } from '../../../shared/form-actions';
+import { fieldError } from '../../../shared/form-errors';
+import { LoadState } from '../../../shared/load-state';
+import { PageHeader } from '../../../shared/page-header';
+import { RecordEditor } from '../../../shared/record-editor';
 import { regimeLabels } from '../../../shared/setup-labels';
 import { HasUnsavedChanges, warnBeforeUnload } from '../../../shared/unsaved-changes';
 
@@ -56,14 +58,16 @@ function countryValidator(control: AbstractControl<string>): ValidationErrors | 
   selector: 'fl-site-form',
   imports: [
     ReactiveFormsModule,
-    RouterLink,
     MatFormFieldModule,
     MatInputModule,
     MatSelectModule,
     MatAutocompleteModule,
-    MatButtonModule,
     ConflictNotice,
+    FormActions,
+    LoadState,
+    PageHeader,
   ],
+  providers: [RecordEditor],
   templateUrl: './site-form.html',
   styleUrl: './site-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -72,7 +76,7 @@ function countryValidator(control: AbstractControl<string>): ValidationErrors | 
 export class SiteForm implements HasUnsavedChanges {
   private readonly api = inject(SitesApi);
   private readonly router = inject(Router);
-  private readonly snackBar = inject(MatSnackBar);
+  protected readonly editor = inject(RecordEditor);
   private readonly fb = inject(NonNullableFormBuilder);
 
   /** Route parameter; absent on /sites/new. */
@@ -91,9 +95,6 @@ export class SiteForm implements HasUnsavedChanges {
   });
 
   protected readonly site = signal<Site | null>(null);
-  protected readonly status = signal<'loading' | 'ready' | 'failed'>('ready');
-  protected readonly saving = signal(false);
-  protected readonly conflict = signal(false);
 
   private readonly timeZoneText = toSignal(this.form.controls.timeZone.valueChanges, { initialValue: this.form.controls.timeZone.value });
   private readonly countryText = toSignal(this.form.controls.country.valueChanges, { initialValue: '' });
@@ -104,6 +105,8 @@ export class SiteForm implements HasUnsavedChanges {
   protected readonly countryHint = computed(() => countryName(this.countryText()) ?? 'Two letters, ISO 3166-1 (e.g. DE, US)');
 
   constructor() {
+    // A new site has nothing to load.
+    this.editor.status.set('ready');
     effect(() => {
       const siteId = this.siteId();
       if (siteId) void this.load(siteId);
@@ -111,7 +114,8 @@ export class SiteForm implements HasUnsavedChanges {
   }
 
   hasUnsavedChanges(): boolean {
-    return this.form.dirty && !this.saving();
+    // The route lets only people who may edit reach this form.
+    return this.form.dirty && !this.editor.saving();
   }
 
   protected onBeforeUnload(event: BeforeUnloadEvent): void {
@@ -123,9 +127,8 @@ export class SiteForm implements HasUnsavedChanges {
     if (siteId) await this.load(siteId);
   }
 
-  private async load(siteId: string): Promise<void> {
-    this.status.set('loading');
-    try {
+  private load(siteId: string): Promise<void> {
+    return this.editor.load(async () => {
       const site = await firstValueFrom(this.api.getSite(siteId));
       this.site.set(site);
       this.form.reset({
@@ -135,39 +138,26 @@ export class SiteForm implements HasUnsavedChanges {
         regime: site.regime,
         address: site.address ?? '',
       });
-      this.conflict.set(false);
-      this.status.set('ready');
-    } catch {
-      this.status.set('failed');
-    }
+    });
   }
 
-  protected async save(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    const value = this.form.getRawValue();
-    const body: SiteInput = {
-      name: value.name.trim(),
-      timeZone: value.timeZone.trim(),
-      country: value.country.trim().toUpperCase(),
-      regime: value.regime,
-      address: value.address.trim() || null,
-    };
-    this.saving.set(true);
-    try {
+  protected save(): Promise<void> {
+    return this.editor.save(this.form, async () => {
+      const value = this.form.getRawValue();
+      const body: SiteInput = {
+        name: value.name.trim(),
+        timeZone: value.timeZone.trim(),
+        country: value.country.trim().toUpperCase(),
+        regime: value.regime,
+        address: value.address.trim() || null,
+      };
       const current = this.site();
       const saved = current
         ? await firstValueFrom(this.api.updateSite(current.id, { ...body, version: current.version }))
         : await firstValueFrom(this.api.createSite(body));
       this.form.markAsPristine();
-      this.snackBar.open(current ? 'Site saved.' : `Site “${saved.name}” added. Next, add its emission units.`, 'Close', { duration: 5000 });
+      this.editor.notify(current ? 'Site saved.' : `Site “${saved.name}” added. Next, add its emission units.`);
       await this.router.navigate(['/sites', saved.id]);
-    } catch (error) {
-      if (classifySaveError(error, this.form) === 'stale') this.conflict.set(true);
-    } finally {
-      this.saving.set(false);
-    }
+    });
   }
 }

@@ -1,9 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatPaginatorModule, PageEvent } from '@angular/material/paginator';
 import { MatSortModule, Sort } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
@@ -13,6 +11,9 @@ import { catchError, debounceTime, distinctUntilChanged, map, of, switchMap, tap
 import { ListQuery } from '../../../core/api/list-page';
 import { Site, SitesApi } from '../../../core/api/sites-api';
 import { Auth } from '../../../core/auth/auth';
+import { canEditSetup } from '../../../shared/can-edit-setup';
+import { FilterField } from '../../../shared/filter-field';
+import { PageHeader } from '../../../shared/page-header';
 import { regimeLabels } from '../../../shared/setup-labels';
 
 /** Sort fields the API accepts for sites (SiteListQuery). */
@@ -25,10 +26,10 @@ const sortableColumns = ['name', 'country', 'regime'] as const;
     MatTableModule,
     MatSortModule,
     MatPaginatorModule,
-    MatFormFieldModule,
-    MatInputModule,
     MatButtonModule,
     MatIconModule,
+    FilterField,
+    PageHeader,
   ],
   templateUrl: './site-list.html',
   styleUrl: './site-list.scss',
@@ -38,7 +39,7 @@ export class SiteList {
   private readonly api = inject(SitesApi);
   private readonly auth = inject(Auth);
 
-  protected readonly canEdit = computed(() => this.auth.me()?.permissions.includes('site:write') ?? false);
+  protected readonly canEdit = canEditSetup();
   protected readonly isManager = computed(() => this.auth.me()?.role === 'manager');
   protected readonly columns = ['name', 'country', 'regime', 'timeZone'];
   protected readonly pageSizeOptions = [10, 25, 50];
@@ -89,9 +90,9 @@ export class SiteList {
       });
   }
 
-  protected onFilter(event: Event): void {
+  protected onFilter(text: string): void {
     this.pageIndex.set(0);
-    this.filter.set((event.target as HTMLInputElement).value);
+    this.filter.set(text);
   }
 
   protected onSort(sort: Sort): void {

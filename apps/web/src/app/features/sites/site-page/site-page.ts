@@ -1,10 +1,7 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
-import { MatPaginatorModule } from '@angular/material/paginator';
 import { MatSortModule } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
@@ -12,10 +9,15 @@ import { firstValueFrom } from 'rxjs';
 
 import { Permit, PermitsApi } from '../../../core/api/permits-api';
 import { SiteDetail, SitesApi } from '../../../core/api/sites-api';
-import { Auth } from '../../../core/auth/auth';
+import { canEditSetup } from '../../../shared/can-edit-setup';
 import { ClientTable } from '../../../shared/client-table';
+import { FilterField } from '../../../shared/filter-field';
+import { LoadState, LoadStatus } from '../../../shared/load-state';
+import { namesOf } from '../../../shared/names-of';
+import { PageHeader } from '../../../shared/page-header';
 import { ReadOnlyField, ReadOnlyFields } from '../../../shared/read-only-fields';
 import {
+  analyserRangeLabel,
   basisLabels,
   fFactorSourceLabels,
   fuelTypeLabels,
@@ -24,6 +26,7 @@ import {
   unitLabel,
   unitTypeLabels,
 } from '../../../shared/setup-labels';
+import { TablePager } from '../../../shared/table-pager';
 import { countryName } from '../site-form/site-form';
 
 export interface UnitRow {
@@ -87,12 +90,13 @@ const byColumn = <T extends object>(row: T, column: string): string | number | n
     RouterLink,
     MatTableModule,
     MatSortModule,
-    MatPaginatorModule,
-    MatFormFieldModule,
-    MatInputModule,
     MatButtonModule,
     MatIconModule,
+    FilterField,
+    LoadState,
+    PageHeader,
     ReadOnlyFields,
+    TablePager,
   ],
   templateUrl: './site-page.html',
   styleUrl: './site-page.scss',
@@ -101,12 +105,11 @@ const byColumn = <T extends object>(row: T, column: string): string | number | n
 export class SitePage {
   private readonly sitesApi = inject(SitesApi);
   private readonly permitsApi = inject(PermitsApi);
-  private readonly auth = inject(Auth);
 
   readonly siteId = input.required<string>();
 
-  protected readonly canEdit = computed(() => this.auth.me()?.permissions.includes('site:write') ?? false);
-  protected readonly status = signal<'loading' | 'loaded' | 'failed'>('loading');
+  protected readonly canEdit = canEditSetup();
+  protected readonly status = signal<LoadStatus>('loading');
   protected readonly site = signal<SiteDetail | null>(null);
   private readonly permits = signal<Permit[]>([]);
   protected readonly filter = signal('');
@@ -125,13 +128,12 @@ export class SitePage {
   private readonly unitRows = computed<UnitRow[]>(() => {
     const site = this.site();
     if (!site) return [];
-    const fuelNames = new Map(site.fuels.map((fuel) => [fuel.id, fuel.name]));
     return site.units.map((unit) => ({
       id: unit.id,
       name: unit.name,
       type: unitTypeLabels[unit.unitType],
       ratedThermalInputMWth: unit.ratedThermalInputMWth,
-      fuels: unit.fuelIds.map((id) => fuelNames.get(id) ?? '').filter(Boolean).join(', '),
+      fuels: namesOf(unit.fuelIds, site.fuels),
       inService: unit.inServiceTo ? `${unit.inServiceFrom} – ${unit.inServiceTo}` : `since ${unit.inServiceFrom}`,
     }));
   });
@@ -139,11 +141,10 @@ export class SitePage {
   private readonly stackRows = computed<StackRow[]>(() => {
     const site = this.site();
     if (!site) return [];
-    const unitNames = new Map(site.units.map((unit) => [unit.id, unit.name]));
     return site.stacks.map((stack) => ({
       id: stack.id,
       name: stack.name,
-      units: stack.unitIds.map((id) => unitNames.get(id) ?? '').filter(Boolean).join(', '),
+      units: namesOf(stack.unitIds, site.units),
       heightM: stack.heightM,
       channels: stack.channels.map((channel) => channel.parameter).join(', '),
     }));
@@ -159,10 +160,7 @@ export class SitePage {
         unit: unitLabel(channel.unit),
         basis: basisLabels[channel.basis],
         intervalMinutes: channel.intervalMinutes,
-        range:
-          channel.rangeMin !== null && channel.rangeMax !== null
-            ? `${channel.rangeMin} – ${channel.rangeMax} ${unitLabel(channel.unit)}`
-            : '',
+        range: analyserRangeLabel(channel),
       })),
     ),
   );
@@ -216,6 +214,8 @@ export class SitePage {
 
   private async load(siteId: string): Promise<void> {
     this.status.set('loading');
+    // The heading and its commands name the site only once it has loaded.
+    this.site.set(null);
     try {
       const [site, permits] = await Promise.all([
         firstValueFrom(this.sitesApi.getSite(siteId)),
@@ -223,14 +223,14 @@ export class SitePage {
       ]);
       this.site.set(site);
       this.permits.set(permits.items);
-      this.status.set('loaded');
+      this.status.set('ready');
     } catch {
       this.status.set('failed');
     }
   }
 
-  protected onFilter(event: Event): void {
-    this.filter.set((event.target as HTMLInputElement).value);
+  protected onFilter(text: string): void {
+    this.filter.set(text);
     for (const table of [this.units, this.stacks, this.channels, this.fuels, this.permitTable]) table.pageIndex.set(0);
   }
 }

@@ -5,22 +5,27 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { MatPaginatorModule } from '@angular/material/paginator';
 import { MatSelectModule } from '@angular/material/select';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSortModule } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
-import { MatTooltipModule } from '@angular/material/tooltip';
-import { Router, RouterLink } from '@angular/router';
+import { Router } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 
 import { Channel, SiteDetail, SitesApi, StackInput, StackWithChannels } from '../../../core/api/sites-api';
-import { Auth } from '../../../core/auth/auth';
 import { ClientTable } from '../../../shared/client-table';
 import { ConflictNotice } from '../../../shared/conflict-notice';
+import { FilterField } from '../../../shared/filter-field';
+import { FormActions } from '../../../shared/form-actions';
 import { classifySaveError, fieldError } from '../../../shared/form-errors';
+import { LoadState } from '../../../shared/load-state';
+import { namesOf } from '../../../shared/names-of';
+import { PageHeader } from '../../../shared/page-header';
 import { ReadOnlyField, ReadOnlyFields } from '../../../shared/read-only-fields';
-import { basisLabels, conditionsLabels, parameterLabels, unitLabel } from '../../../shared/setup-labels';
+import { RecordEditor } from '../../../shared/record-editor';
+import { RowActions } from '../../../shared/row-actions';
+import { analyserRangeLabel, basisLabels, conditionsLabels, parameterLabels, unitLabel } from '../../../shared/setup-labels';
+import { TablePager } from '../../../shared/table-pager';
+import { upsertById } from '../../../shared/upsert-by-id';
 import { HasUnsavedChanges, warnBeforeUnload } from '../../../shared/unsaved-changes';
 import { ChannelDialog, ChannelDialogData } from '../channel-dialog/channel-dialog';
 
@@ -43,7 +48,6 @@ export interface ChannelTableRow {
   selector: 'fl-stack-editor',
   imports: [
     ReactiveFormsModule,
-    RouterLink,
     MatFormFieldModule,
     MatInputModule,
     MatSelectModule,
@@ -51,11 +55,16 @@ export interface ChannelTableRow {
     MatIconModule,
     MatTableModule,
     MatSortModule,
-    MatPaginatorModule,
-    MatTooltipModule,
     ConflictNotice,
+    FilterField,
+    FormActions,
+    LoadState,
+    PageHeader,
     ReadOnlyFields,
+    RowActions,
+    TablePager,
   ],
+  providers: [RecordEditor],
   templateUrl: './stack-editor.html',
   styleUrl: './stack-editor.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -63,17 +72,15 @@ export interface ChannelTableRow {
 })
 export class StackEditor implements HasUnsavedChanges {
   private readonly api = inject(SitesApi);
-  private readonly auth = inject(Auth);
   private readonly router = inject(Router);
   private readonly dialog = inject(MatDialog);
-  private readonly snackBar = inject(MatSnackBar);
+  protected readonly editor = inject(RecordEditor);
   private readonly fb = inject(NonNullableFormBuilder);
 
   readonly siteId = input.required<string>();
   /** Absent on …/stacks/new. */
   readonly stackId = input<string>();
 
-  protected readonly canEdit = computed(() => this.auth.me()?.permissions.includes('site:write') ?? false);
   protected readonly fieldError = fieldError;
 
   protected readonly form = this.fb.group({
@@ -85,19 +92,15 @@ export class StackEditor implements HasUnsavedChanges {
 
   protected readonly site = signal<SiteDetail | null>(null);
   protected readonly stack = signal<StackWithChannels | null>(null);
-  protected readonly status = signal<'loading' | 'ready' | 'failed'>('loading');
-  protected readonly saving = signal(false);
-  protected readonly conflict = signal(false);
   protected readonly filter = signal('');
 
   protected readonly readOnlyFields = computed<ReadOnlyField[]>(() => {
     const stack = this.stack();
     if (!stack) return [];
-    const unitNames = new Map((this.site()?.units ?? []).map((unit) => [unit.id, unit.name]));
     return [
       { label: 'Height', value: stack.heightM === null ? '' : `${stack.heightM} m` },
       { label: 'Diameter', value: stack.diameterM === null ? '' : `${stack.diameterM} m` },
-      { label: 'Emission units', value: stack.unitIds.map((id) => unitNames.get(id) ?? '').filter(Boolean).join(', ') },
+      { label: 'Emission units', value: namesOf(stack.unitIds, this.site()?.units ?? []) },
     ];
   });
 
@@ -108,10 +111,7 @@ export class StackEditor implements HasUnsavedChanges {
       unit: unitLabel(channel.unit),
       basis: basisLabels[channel.basis],
       conditions: conditionsLabels[channel.conditions],
-      range:
-        channel.rangeMin !== null && channel.rangeMax !== null
-          ? `${channel.rangeMin} – ${channel.rangeMax} ${unitLabel(channel.unit)}`
-          : '',
+      range: analyserRangeLabel(channel),
       intervalMinutes: channel.intervalMinutes,
       sourceLabel: channel.sourceLabel ?? '',
     })),
@@ -127,7 +127,7 @@ export class StackEditor implements HasUnsavedChanges {
 
   protected readonly channelColumns = computed(() => {
     const columns = ['parameter', 'unit', 'basis', 'conditions', 'range', 'intervalMinutes', 'sourceLabel'];
-    return this.canEdit() ? [...columns, 'actions'] : columns;
+    return this.editor.canEdit() ? [...columns, 'actions'] : columns;
   });
 
   constructor() {
@@ -135,7 +135,7 @@ export class StackEditor implements HasUnsavedChanges {
   }
 
   hasUnsavedChanges(): boolean {
-    return this.canEdit() && this.form.dirty && !this.saving();
+    return this.editor.hasUnsavedChanges(this.form);
   }
 
   protected onBeforeUnload(event: BeforeUnloadEvent): void {
@@ -146,9 +146,8 @@ export class StackEditor implements HasUnsavedChanges {
     return this.load(this.siteId(), this.stackId());
   }
 
-  private async load(siteId: string, stackId: string | undefined): Promise<void> {
-    this.status.set('loading');
-    try {
+  private load(siteId: string, stackId: string | undefined): Promise<void> {
+    return this.editor.load(async () => {
       const [site, stack] = await Promise.all([
         firstValueFrom(this.api.getSite(siteId)),
         stackId ? firstValueFrom(this.api.getStack(stackId)) : Promise.resolve(null),
@@ -158,55 +157,34 @@ export class StackEditor implements HasUnsavedChanges {
       if (stack) {
         this.form.reset({ name: stack.name, heightM: stack.heightM, diameterM: stack.diameterM, unitIds: stack.unitIds });
       }
-      this.conflict.set(false);
-      this.status.set('ready');
-    } catch {
-      this.status.set('failed');
-    }
+    });
   }
 
-  protected async save(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    const value = this.form.getRawValue();
-    const body: StackInput = { ...value, name: value.name.trim() };
-    this.saving.set(true);
-    try {
+  protected save(): Promise<void> {
+    return this.editor.save(this.form, async () => {
+      const value = this.form.getRawValue();
+      const body: StackInput = { ...value, name: value.name.trim() };
       const current = this.stack();
       if (current) {
         const saved = await firstValueFrom(this.api.updateStack(current.id, { ...body, version: current.version }));
         this.stack.set({ ...current, ...saved });
         this.form.markAsPristine();
-        this.snackBar.open('Stack saved.', 'Close', { duration: 5000 });
+        this.editor.notify('Stack saved.');
       } else {
         const created = await firstValueFrom(this.api.createStack(this.siteId(), body));
         this.form.markAsPristine();
-        this.snackBar.open(`Stack “${created.name}” added. Now add the channels its monitors report.`, 'Close', {
-          duration: 6000,
-        });
+        this.editor.notify(`Stack “${created.name}” added. Now add the channels its monitors report.`, 6000);
         // Channels belong to a saved stack: continue on the stack's own page.
         await this.router.navigate(['/sites', this.siteId(), 'stacks', created.id], { replaceUrl: true });
       }
-    } catch (error) {
-      if (classifySaveError(error, this.form) === 'stale') this.conflict.set(true);
-    } finally {
-      this.saving.set(false);
-    }
+    });
   }
 
   protected async archive(): Promise<void> {
     const stack = this.stack();
     if (!stack) return;
-    try {
-      await firstValueFrom(this.api.archiveStack(stack.id, stack.version));
-      this.form.markAsPristine();
-      this.snackBar.open(`Stack “${stack.name}” archived. Its readings and history are kept.`, 'Close', { duration: 5000 });
-      await this.router.navigate(['/sites', this.siteId()]);
-    } catch (error) {
-      if (classifySaveError(error) === 'stale') this.conflict.set(true);
-    }
+    const message = `Stack “${stack.name}” archived. Its readings and history are kept.`;
+    await this.editor.archive(this.api.archiveStack(stack.id, stack.version), this.form, message, this.siteId());
   }
 
   protected async openChannel(channel?: Channel): Promise<void> {
@@ -223,17 +201,8 @@ export class StackEditor implements HasUnsavedChanges {
       if (channel) await this.refreshChannels();
       return;
     }
-    this.stack.update((current) =>
-      current
-        ? {
-            ...current,
-            channels: channel
-              ? current.channels.map((existing) => (existing.id === saved.id ? saved : existing))
-              : [...current.channels, saved],
-          }
-        : current,
-    );
-    this.snackBar.open(`${parameterLabels[saved.parameter]} channel saved.`, 'Close', { duration: 4000 });
+    this.stack.update((current) => (current ? { ...current, channels: upsertById(current.channels, saved) } : current));
+    this.editor.notify(`${parameterLabels[saved.parameter]} channel saved.`, 4000);
   }
 
   protected async archiveChannel(channel: Channel): Promise<void> {
@@ -242,9 +211,7 @@ export class StackEditor implements HasUnsavedChanges {
       this.stack.update((current) =>
         current ? { ...current, channels: current.channels.filter((existing) => existing.id !== channel.id) } : current,
       );
-      this.snackBar.open(`${parameterLabels[channel.parameter]} channel archived. Its readings are kept.`, 'Close', {
-        duration: 5000,
-      });
+      this.editor.notify(`${parameterLabels[channel.parameter]} channel archived. Its readings are kept.`);
     } catch (error) {
       if (classifySaveError(error) === 'stale') await this.refreshChannels();
     }
@@ -257,9 +224,9 @@ export class StackEditor implements HasUnsavedChanges {
     this.stack.update((current) => (current ? { ...current, channels: fresh.channels } : current));
   }
 
-  protected onFilter(event: Event): void {
+  protected onFilter(text: string): void {
     this.channels.pageIndex.set(0);
-    this.filter.set((event.target as HTMLInputElement).value);
+    this.filter.set(text);
   }
 
   protected channelName(channel: Channel): string {

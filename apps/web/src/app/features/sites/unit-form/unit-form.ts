@@ -1,19 +1,21 @@
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { MatSnackBar } from '@angular/material/snack-bar';
-import { Router, RouterLink } from '@angular/router';
+import { Router } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 
 import { EmissionUnit, SiteDetail, SitesApi, UnitInput, UnitType } from '../../../core/api/sites-api';
-import { Auth } from '../../../core/auth/auth';
 import { ConflictNotice } from '../../../shared/conflict-notice';
 import { datesInOrder } from '../../../shared/date-range';
-import { classifySaveError, fieldError } from '../../../shared/form-errors';
+import { FormActions } from '../../../shared/form-actions';
+import { fieldError } from '../../../shared/form-errors';
+import { LoadState } from '../../../shared/load-state';
+import { namesOf } from '../../../shared/names-of';
+import { PageHeader } from '../../../shared/page-header';
 import { ReadOnlyField, ReadOnlyFields } from '../../../shared/read-only-fields';
+import { RecordEditor } from '../../../shared/record-editor';
 import { unitTypeLabels } from '../../../shared/setup-labels';
 import { HasUnsavedChanges, warnBeforeUnload } from '../../../shared/unsaved-changes';
 
@@ -22,14 +24,16 @@ import { HasUnsavedChanges, warnBeforeUnload } from '../../../shared/unsaved-cha
   selector: 'fl-unit-form',
   imports: [
     ReactiveFormsModule,
-    RouterLink,
     MatFormFieldModule,
     MatInputModule,
     MatSelectModule,
-    MatButtonModule,
     ConflictNotice,
+    FormActions,
+    LoadState,
+    PageHeader,
     ReadOnlyFields,
   ],
+  providers: [RecordEditor],
   templateUrl: './unit-form.html',
   styleUrl: './unit-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -37,16 +41,14 @@ import { HasUnsavedChanges, warnBeforeUnload } from '../../../shared/unsaved-cha
 })
 export class UnitForm implements HasUnsavedChanges {
   private readonly api = inject(SitesApi);
-  private readonly auth = inject(Auth);
   private readonly router = inject(Router);
-  private readonly snackBar = inject(MatSnackBar);
+  protected readonly editor = inject(RecordEditor);
   private readonly fb = inject(NonNullableFormBuilder);
 
   readonly siteId = input.required<string>();
   /** Absent on …/units/new. */
   readonly unitId = input<string>();
 
-  protected readonly canEdit = computed(() => this.auth.me()?.permissions.includes('site:write') ?? false);
   protected readonly unitTypes = Object.keys(unitTypeLabels) as UnitType[];
   protected readonly unitTypeLabels = unitTypeLabels;
   protected readonly fieldError = fieldError;
@@ -69,20 +71,16 @@ export class UnitForm implements HasUnsavedChanges {
 
   protected readonly site = signal<SiteDetail | null>(null);
   protected readonly unit = signal<EmissionUnit | null>(null);
-  protected readonly status = signal<'loading' | 'ready' | 'failed'>('loading');
-  protected readonly saving = signal(false);
-  protected readonly conflict = signal(false);
 
   protected readonly readOnlyFields = computed<ReadOnlyField[]>(() => {
     const unit = this.unit();
     if (!unit) return [];
-    const fuelNames = new Map((this.site()?.fuels ?? []).map((fuel) => [fuel.id, fuel.name]));
     return [
       { label: 'Type', value: unitTypeLabels[unit.unitType] },
       { label: 'Rated thermal input', value: `${unit.ratedThermalInputMWth} MWth` },
       { label: 'In service from', value: unit.inServiceFrom },
       { label: 'In service to', value: unit.inServiceTo ?? 'In service' },
-      { label: 'Fuels burned', value: unit.fuelIds.map((id) => fuelNames.get(id) ?? '').filter(Boolean).join(', ') },
+      { label: 'Fuels burned', value: namesOf(unit.fuelIds, this.site()?.fuels ?? []) },
     ];
   });
 
@@ -91,7 +89,7 @@ export class UnitForm implements HasUnsavedChanges {
   }
 
   hasUnsavedChanges(): boolean {
-    return this.canEdit() && this.form.dirty && !this.saving();
+    return this.editor.hasUnsavedChanges(this.form);
   }
 
   protected onBeforeUnload(event: BeforeUnloadEvent): void {
@@ -102,9 +100,8 @@ export class UnitForm implements HasUnsavedChanges {
     return this.load(this.siteId(), this.unitId());
   }
 
-  private async load(siteId: string, unitId: string | undefined): Promise<void> {
-    this.status.set('loading');
-    try {
+  private load(siteId: string, unitId: string | undefined): Promise<void> {
+    return this.editor.load(async () => {
       const [site, unit] = await Promise.all([
         firstValueFrom(this.api.getSite(siteId)),
         unitId ? firstValueFrom(this.api.getUnit(unitId)) : Promise.resolve(null),
@@ -121,52 +118,33 @@ export class UnitForm implements HasUnsavedChanges {
           fuelIds: unit.fuelIds,
         });
       }
-      this.conflict.set(false);
-      this.status.set('ready');
-    } catch {
-      this.status.set('failed');
-    }
+    });
   }
 
-  protected async save(): Promise<void> {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    const value = this.form.getRawValue();
-    const body: UnitInput = {
-      name: value.name.trim(),
-      unitType: value.unitType,
-      ratedThermalInputMWth: value.ratedThermalInputMWth as number,
-      inServiceFrom: value.inServiceFrom,
-      inServiceTo: value.inServiceTo || null,
-      fuelIds: value.fuelIds,
-    };
-    this.saving.set(true);
-    try {
+  protected save(): Promise<void> {
+    return this.editor.save(this.form, async () => {
+      const value = this.form.getRawValue();
+      const body: UnitInput = {
+        name: value.name.trim(),
+        unitType: value.unitType,
+        ratedThermalInputMWth: value.ratedThermalInputMWth as number,
+        inServiceFrom: value.inServiceFrom,
+        inServiceTo: value.inServiceTo || null,
+        fuelIds: value.fuelIds,
+      };
       const current = this.unit();
       if (current) await firstValueFrom(this.api.updateUnit(current.id, { ...body, version: current.version }));
       else await firstValueFrom(this.api.createUnit(this.siteId(), body));
       this.form.markAsPristine();
-      this.snackBar.open(current ? 'Emission unit saved.' : `Emission unit “${body.name}” added.`, 'Close', { duration: 5000 });
+      this.editor.notify(current ? 'Emission unit saved.' : `Emission unit “${body.name}” added.`);
       await this.router.navigate(['/sites', this.siteId()]);
-    } catch (error) {
-      if (classifySaveError(error, this.form) === 'stale') this.conflict.set(true);
-    } finally {
-      this.saving.set(false);
-    }
+    });
   }
 
   protected async archive(): Promise<void> {
     const unit = this.unit();
     if (!unit) return;
-    try {
-      await firstValueFrom(this.api.archiveUnit(unit.id, unit.version));
-      this.form.markAsPristine();
-      this.snackBar.open(`Emission unit “${unit.name}” archived. Its history is kept.`, 'Close', { duration: 5000 });
-      await this.router.navigate(['/sites', this.siteId()]);
-    } catch (error) {
-      if (classifySaveError(error) === 'stale') this.conflict.set(true);
-    }
+    const message = `Emission unit “${unit.name}” archived. Its history is kept.`;
+    await this.editor.archive(this.api.archiveUnit(unit.id, unit.version), this.form, message, this.siteId());
   }
 }
