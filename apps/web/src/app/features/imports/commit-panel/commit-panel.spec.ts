@@ -112,6 +112,9 @@ describe('CommitPanel', () => {
       expect(await bar.getValue()).toBe(25);
       expect(text(fixture)).toContain('Writing readings: 250 of 1,000');
 
+      // Polls sent while the commit was still running (a slow machine may send more than one);
+      // match() takes them off the open list.
+      http.match('/api/imports/imp-1/progress');
       commit.flush({ inserted: 1000, unchanged: 0, superseded: 0, conflicts: 0, nothingNew: false });
       await settle(fixture);
       await new Promise((resolve) => setTimeout(resolve, 40));

@@ -48,14 +48,34 @@ describe('MappingStep', () => {
   it('shows each column with the suggested channel already chosen', async () => {
     const rows = await (await loader.getHarness(MatTableHarness)).getRows();
     const cells = await Promise.all(rows.map((row) => row.getCellTextByColumnName()));
-    expect(cells.map((c) => c['column'])).toEqual(['A Time', 'B NOx mg/Nm3 dry', 'C O2 %', 'D Spare 1']);
-    expect(cells[0]['channel']).toBe('Timestamp');
-    expect(cells[1]['suggested']).toContain('NOx (as NO2) · mg/Nm3, dry');
+    expect(cells.map((c) => c['column'])).toEqual(['B NOx mg/Nm3 dry', 'C O2 %', 'D Spare 1']);
+    expect(cells[0]['suggested']).toContain('NOx (as NO2) · mg/Nm3, dry');
+    expect(cells[0]['suggested']).toContain('from the header and unit');
 
     expect(await (await channelSelect('B')).getValueText()).toBe('NOx (as NO2) · mg/Nm3, dry');
     expect(await (await channelSelect('C')).getValueText()).toBe('O2 · %, dry');
     // No suggestion for an unknown header: the column stays out unless the officer picks a channel.
     expect(await (await channelSelect('D')).isEmpty()).toBe(true);
+  });
+
+  it('shows the timestamp and status columns the server found, though they are not value columns', async () => {
+    fixture.componentRef.setInput('draft', draftFixture({ statusColumn: 4 }));
+    fixture.componentInstance.ngOnInit();
+    await settle(fixture);
+    const timestamp = await loader.getHarness(MatSelectHarness.with({ selector: '[formControlName="timestampColumn"]' }));
+    expect(await timestamp.getValueText()).toBe('A · Time');
+    const status = await loader.getHarness(MatSelectHarness.with({ selector: '[formControlName="statusColumn"]' }));
+    expect(await status.getValueText()).toBe('E · (status)');
+    await status.open();
+    const options = await status.getOptions();
+    expect(await Promise.all(options.map((o) => o.getText()))).toEqual([
+      'None',
+      'A · Time',
+      'B · NOx mg/Nm3 dry',
+      'C · O2 %',
+      'D · Spare 1',
+      'E · (status)',
+    ]);
   });
 
   it('sends the confirmed mapping, with a changed column and the wish to remember it', async () => {

@@ -25,6 +25,27 @@ interface MappingRow {
   column: ImportColumn;
 }
 
+/** The server's reasons for a suggestion (`suggestMapping` in the API's imports module). */
+const suggestionSources: Record<string, string> = {
+  stack_map: 'as remembered for this stack',
+  source_label: "the channel's logger label",
+  header: 'from the header and unit',
+};
+
+/** A column the timestamp or status select offers. */
+interface LayoutColumn {
+  index: number;
+  letter: string;
+  header: string;
+}
+
+/** Spreadsheet column letters, as the API writes them: 0 → A, 25 → Z, 26 → AA. */
+function columnLetter(index: number): string {
+  let letters = '';
+  for (let n = index + 1; n > 0; n = Math.floor((n - 1) / 26)) letters = String.fromCharCode(65 + ((n - 1) % 26)) + letters;
+  return letters;
+}
+
 /** Each channel may take one column: two columns into one channel would double its readings. */
 function noChannelTwice(control: AbstractControl): ValidationErrors | null {
   const chosen = (control as FormArray<FormControl<string | null>>).getRawValue().filter((id): id is string => !!id);
@@ -73,6 +94,22 @@ export class MappingStep implements OnInit {
 
   protected readonly displayedColumns = ['column', 'unit', 'sample', 'suggested', 'channel'];
   protected readonly rows = computed<MappingRow[]>(() => this.draft().columns.map((column, position) => ({ position, column })));
+  /**
+   * The columns the timestamp and status selects offer. The draft's `columns` are the value
+   * columns only: the timestamp column and the status column the server found are not among
+   * them, so they are added here, or their selects would show nothing chosen.
+   */
+  protected readonly layoutColumns = computed<LayoutColumn[]>(() => {
+    const draft = this.draft();
+    const byIndex = new Map<number, LayoutColumn>(draft.columns.map((c) => [c.index, { index: c.index, letter: c.letter, header: c.header }]));
+    if (!byIndex.has(draft.timestampColumn)) {
+      byIndex.set(draft.timestampColumn, { index: draft.timestampColumn, letter: columnLetter(draft.timestampColumn), header: draft.timestampHeader });
+    }
+    if (draft.statusColumn !== null && !byIndex.has(draft.statusColumn)) {
+      byIndex.set(draft.statusColumn, { index: draft.statusColumn, letter: columnLetter(draft.statusColumn), header: '(status)' });
+    }
+    return [...byIndex.values()].sort((a, b) => a.index - b.index);
+  });
   protected readonly channelsById = computed(() => new Map(this.channels().map((channel) => [channel.id, channel])));
 
   private readonly formValue = toSignal(this.form.valueChanges.pipe(startWith(null)), { initialValue: null });
@@ -120,6 +157,11 @@ export class MappingStep implements OnInit {
 
   protected isSpecial(column: ImportColumn): boolean {
     return column.index === this.timestampColumn() || column.index === this.statusColumn();
+  }
+
+  /** Why a channel was suggested, in words; a reason this screen does not know is shown as sent. */
+  protected suggestionSourceText(source: string): string {
+    return suggestionSources[source] ?? source;
   }
 
   protected suggestionText(column: ImportColumn): string {

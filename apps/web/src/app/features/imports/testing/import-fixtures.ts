@@ -54,10 +54,10 @@ export function draftFixture(overrides: Partial<ImportDraft> = {}): ImportDraft 
     intervalConvention: 'interval_end',
     intervalSeconds: 60,
     period: { from: null, to: null },
+    // The value columns only, as the API answers: the timestamp (and any status) column is not among them.
     columns: [
-      { index: 0, letter: 'A', header: 'Time', unitHint: null, parameterHint: null, basisHint: null, suggestedChannelId: null, suggestionSource: null, mappedChannelId: null, sample: [], numbers: 0, problems: 0 },
-      { index: 1, letter: 'B', header: 'NOx mg/Nm3 dry', unitHint: 'mg/Nm3', parameterHint: 'NOx', basisHint: 'dry', suggestedChannelId: 'ch-nox', suggestionSource: 'header and unit', mappedChannelId: null, sample: [61.2, 63.8, null], numbers: 43_199, problems: 1 },
-      { index: 2, letter: 'C', header: 'O2 %', unitHint: '%', parameterHint: 'O2', basisHint: null, suggestedChannelId: 'ch-o2', suggestionSource: 'header and unit', mappedChannelId: null, sample: [3.1, 3.2, 3.0], numbers: 43_200, problems: 0 },
+      { index: 1, letter: 'B', header: 'NOx mg/Nm3 dry', unitHint: 'mg/Nm3', parameterHint: 'NOx', basisHint: 'dry', suggestedChannelId: 'ch-nox', suggestionSource: 'header', mappedChannelId: null, sample: [61.2, 63.8, null], numbers: 43_199, problems: 1 },
+      { index: 2, letter: 'C', header: 'O2 %', unitHint: '%', parameterHint: 'O2', basisHint: null, suggestedChannelId: 'ch-o2', suggestionSource: 'header', mappedChannelId: null, sample: [3.1, 3.2, 3.0], numbers: 43_200, problems: 0 },
       { index: 3, letter: 'D', header: 'Spare 1', unitHint: null, parameterHint: null, basisHint: null, suggestedChannelId: null, suggestionSource: null, mappedChannelId: null, sample: [0, 0], numbers: 43_200, problems: 1 },
     ],
     notes: [],
