@@ -1,6 +1,7 @@
 import { iedLcpRules, usRolling30DayRule, type LimitRule } from '@flueledger/calc';
 import type { Knex } from 'knex';
 import { analysisFigures } from '../apps/api/src/modules/fuels/fuel-factors';
+import { northmoorGridGas2026 } from '../apps/api/src/modules/imports/demo-data';
 import type { CreateAnalysisBody, FuelKind, FuelType } from '../apps/api/src/modules/fuels/fuels.schemas';
 import { fromLimitRule } from '../apps/api/src/modules/permits/limits.mapper';
 
@@ -172,14 +173,15 @@ async function seedNorthmoor(knex: Knex, officerId: string | null, managerId: st
     ]);
     if (managerId) await upsert(trx, 'site_members', [{ tenant_id: t, site_id: ids.northmoorMill, user_id: managerId }], ['tenant_id', 'site_id', 'user_id']);
 
-    // Grid gas (H-gas), mol %; two lab reports to show the history.
+    // Grid gas (H-gas), mol %; two lab reports to show the history. The 2026 one is the gas of the
+    // demo month (its CO2max, 11.96 % dry, is what the example file's CO2 follows).
     await addFuel(
       trx,
       t,
       { id: ids.gas, siteId: ids.northmoorMill, name: 'Natural gas (grid, H-gas)', fuelType: 'natural_gas', kind: 'gas' },
       [
         { id: ids.gasAnalysis2025, body: { validFrom: '2025-01-01', composition: { CH4: 94.0, C2H6: 3.0, C3H8: 0.6, C4H10: 0.2, CO2: 1.0, N2: 1.2 } } },
-        { id: ids.gasAnalysis2026, body: { validFrom: '2026-01-01', composition: { CH4: 93.2, C2H6: 3.6, C3H8: 0.8, C4H10: 0.3, CO2: 0.9, N2: 1.2 } } },
+        { id: ids.gasAnalysis2026, body: { validFrom: '2026-01-01', composition: { ...northmoorGridGas2026.composition } } },
       ],
       officerId,
     );
@@ -223,7 +225,15 @@ async function seedNorthmoor(knex: Knex, officerId: string | null, managerId: st
       ],
       ['tenant_id', 'stack_id', 'unit_id'],
     );
-    await addChannels(trx, t, ids.stack1, 1, standardChannels('K2'));
+    // Boiler 2's stack also measures CO2 (dry), so the review can check it against O2 and the gas's
+    // CO2max (analyser drift). Appended: the other channels keep their ids.
+    await addChannels(
+      trx,
+      t,
+      ids.stack1,
+      1,
+      standardChannels('K2', [{ parameter: 'CO2', unit: '%', basis: 'dry', conditions: 'standard', rangeMin: 0, rangeMax: 20, label: 'K2_CO2' }]),
+    );
     await addChannels(
       trx,
       t,

@@ -8,6 +8,9 @@ import * as imports from '../apps/api/src/modules/imports/imports.service';
 // The demo month of one-minute data for the invented Northmoor mill's Stack 1 (Boiler 2),
 // imported through the same import service the API uses (upload → suggested mapping → commit), so
 // the demo shows real imports with their problems, their audit trail and their hourly values.
+// Every channel of the stack must find its column through its logger label (K2_NOX … K2_CO2): the
+// seed stops otherwise, rather than leave a channel — e.g. the CO2 the plausibility check needs —
+// without data.
 // Idempotent: a file already committed to the stack is not imported again. Runs after 02.
 
 const NORTHMOOR = '4f1c2a7e-3b5d-4c8e-9a10-6d2e8b7c1a01';
@@ -36,6 +39,16 @@ export async function seed(knex: Knex): Promise<void> {
   const draft = await inTenant(knex, officer.id, (trx) =>
     imports.upload(ctxFor(trx), STACK_1, { originalName: path.basename(file), bytes }, { intervalConvention: 'interval_end', periodFrom: '2026-10-01', periodTo: '2026-10-31' }),
   );
+  const channelIds = await inTenant(knex, officer.id, (trx) =>
+    trx('channels').where({ tenant_id: NORTHMOOR, stack_id: STACK_1 }).whereNull('archived_at').pluck('id'),
+  );
+  const mapped = draft.columns.filter((c) => c.mappedChannelId !== null);
+  const unmapped = (channelIds as string[]).filter((channelId) => !mapped.some((c) => c.mappedChannelId === channelId));
+  if (unmapped.length > 0) {
+    throw new Error(`03_demo_readings: no column of ${draft.fileName} was matched to channel(s) ${unmapped.join(', ')} (columns: ${draft.columns.map((c) => c.header).join(', ')})`);
+  }
   const result = await inTenant(knex, officer.id, (trx) => imports.commit(ctxFor(trx), { pool: knex }, draft.id, {}));
-  console.log(`[seed] 03_demo_readings: ${draft.fileName} → ${result.inserted} readings (${draft.problemCount} problems reported)`);
+  console.log(
+    `[seed] 03_demo_readings: ${draft.fileName} → ${result.inserted} readings of ${mapped.map((c) => c.header).join(', ')} (${draft.problemCount} problems reported)`,
+  );
 }

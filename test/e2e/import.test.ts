@@ -7,8 +7,9 @@
  *
  * The demo seed already imports the example month into the demo Boiler 2 stack, so the test first
  * sets up a fresh stack on the demo site through the API (the officer's own signed-in session,
- * with the CSRF header): the demo stack's six monitored channels with the logger's column names,
- * and the permit's IED limits for it. The stack's name carries the run's timestamp so reruns
+ * with the CSRF header): the demo stack's seven monitored channels with the logger's column names,
+ * and the permit's IED limits for it. The example month's CO2 analyser drifts on 16–19 October,
+ * which the review's O2/CO2 plausibility check must flag. The stack's name carries the run's timestamp so reruns
  * against the same database pass.
  */
 import { join } from 'node:path';
@@ -31,6 +32,7 @@ const channels = [
   { parameter: 'NOx', unit: 'mg/Nm3', basis: 'dry', conditions: 'standard', rangeMin: 0, rangeMax: 400, sourceLabel: 'K2_NOX' },
   { parameter: 'CO', unit: 'mg/Nm3', basis: 'dry', conditions: 'standard', rangeMin: 0, rangeMax: 300, sourceLabel: 'K2_CO' },
   { parameter: 'O2', unit: '%', basis: 'dry', conditions: 'standard', rangeMin: 0, rangeMax: 25, sourceLabel: 'K2_O2' },
+  { parameter: 'CO2', unit: '%', basis: 'dry', conditions: 'standard', rangeMin: 0, rangeMax: 20, sourceLabel: 'K2_CO2' },
   { parameter: 'H2O', unit: '%', basis: 'wet', conditions: 'standard', rangeMin: 0, rangeMax: 40, sourceLabel: 'K2_H2O' },
   { parameter: 'flow', unit: 'Nm3/h', basis: 'wet', conditions: 'standard', rangeMin: 0, rangeMax: 120000, sourceLabel: 'K2_FLOW' },
   { parameter: 'temperature', unit: 'degC', basis: 'wet', conditions: 'actual', rangeMin: 0, rangeMax: 400, sourceLabel: 'K2_TEMP' },
@@ -136,6 +138,7 @@ async function uploadAndConfirm(page: Page, { firstTime }: { firstTime: boolean 
   for (const header of mappedHeaders) expect(await channelFor(header).innerText()).not.toMatch(/Do not import/);
   expect(await channelFor('K2_NOX').innerText()).toBe('NOx (as NO2) · mg/Nm3, dry');
   expect(await channelFor('K2_O2').innerText()).toBe('O2 · %, dry');
+  expect(await channelFor('K2_CO2').innerText()).toBe('CO2 · %, dry');
   for (const header of unmappedHeaders) expect(await channelFor(header).innerText()).toBe('Do not import');
   expect(await page.getByRole('combobox', { name: 'Timestamp column', exact: true }).innerText()).toMatch(/^A · \S/);
   expect(await page.getByRole('combobox', { name: 'Timestamps mark', exact: true }).innerText()).toBe('The end of each interval');
@@ -275,6 +278,27 @@ describe('importing a month of stack data', () => {
     const box = await chart.boundingBox();
     expect(box?.width ?? 0).toBeGreaterThan(300);
     expect(box?.height ?? 0).toBeGreaterThan(200);
+
+    // O2/CO2 plausibility: measured CO2 against CO2max · (20.9 − O2)/20.9 from the fuel's analysis
+    // (REFERENCES.md §1; CO2max of the seeded grid gas 11.96 % dry). The example's CO2 analyser
+    // loses span from 16 October 00:00 to 85 % of reading at 19 October 10:00 (demo-data.ts): the
+    // hours past the review's 10 % tolerance (common practice) are the drift's last day, 18–19
+    // October, and no other hour of the month departs that far.
+    await page.getByRole('heading', { level: 2, name: 'O2/CO2 plausibility' }).waitFor();
+    const plausibilitySummary = await page.getByText(/hours checked where the measured CO2 departs/).innerText();
+    const [, flaggedHours, checkedHours] = /(\d+) of ([\d,]+) hours checked/.exec(plausibilitySummary) ?? [];
+    expect(Number(flaggedHours)).toBeGreaterThanOrEqual(20);
+    expect(Number(flaggedHours)).toBeLessThanOrEqual(34);
+    expect(numberIn(checkedHours ?? 'NaN')).toBeGreaterThan(700);
+    const flags = page.getByRole('list', { name: 'Plausibility flags' });
+    const flagTexts = await flags.getByRole('listitem').allInnerTexts();
+    // The ten largest departures, each dated in the drift window and below −10 %.
+    expect(flagTexts).toHaveLength(10);
+    for (const text of flagTexts) {
+      expect(text).toMatch(/^\s*1[89] Oct 2026, \d\d:\d\d/);
+      const deviation = /\((-[\d.]+) %\)\s*$/.exec(text)?.[1];
+      expect(Number(deviation)).toBeLessThan(-10);
+    }
 
     const hourly = page.getByRole('table', { name: 'Hourly values' });
     await hourly.getByRole('row').nth(1).waitFor();

@@ -4,7 +4,7 @@
 // of summer time), the file the README walks through and seeds/03_demo_readings.ts imports.
 import { createWriteStream, mkdirSync, statSync } from 'node:fs';
 import path from 'node:path';
-import { northmoorBoiler2Channels, writeDemoWorkbook } from '../modules/imports/demo-data';
+import { northmoorBoiler2Channels, northmoorGasCo2MaxPercentDry, writeDemoWorkbook } from '../modules/imports/demo-data';
 
 export const demoExampleFile = path.join('examples', 'northmoor-boiler2-2026-10.xlsx');
 
@@ -14,6 +14,8 @@ export const northmoorDemoMonth = {
   timeZone: 'Europe/Berlin',
   channels: northmoorBoiler2Channels,
   seed: 20261001,
+  // The seeded 2026 analysis of the mill's grid gas (seeds/02_demo_setup.ts): CO2 follows O2 through it.
+  co2MaxPercentDry: northmoorGasCo2MaxPercentDry,
   titleLines: [
     'Northmoor Mill (invented) — Stack 1 (Boiler 2) — data logger export, one-minute averages',
     'Period 2026-10, local time Europe/Berlin, time stamp = end of the minute. Demo data: every number is made up.',
@@ -33,6 +35,9 @@ async function main(): Promise<void> {
   console.log(`[demo] wrote ${rows} rows × ${northmoorBoiler2Channels.length} channels to ${path.relative(process.cwd(), output)} (${(statSync(output).size / 1024 / 1024).toFixed(1)} MB)`);
   console.log(`[demo] calibration ${events.calibration.from}–${events.calibration.to}; analyser outage ${events.outage.from}–${events.outage.to};`);
   console.log(`[demo] burner fault (NOx/CO high) ${events.spike.from}–${events.spike.to}; "----" in ${events.textCells.channel} ${events.textCells.from}–${events.textCells.to};`);
+  if (events.co2Drift) {
+    console.log(`[demo] ${events.co2Drift.channel} span drift to ${events.co2Drift.worstSpanErrorPercent} % of reading ${events.co2Drift.from}–${events.co2Drift.to} (CO2max ${northmoorGasCo2MaxPercentDry.toFixed(2)} % dry);`);
+  }
   console.log(`[demo] repeated hour at the end of summer time: ${events.dstRepeatedHour ?? 'none'}`);
 }
 

@@ -4,18 +4,24 @@
  * end of each minute, one column per channel and a status column.
  *
  * Everything is made up (no plant's real data): a natural-gas boiler of about 48 MW thermal input
- * whose load follows a day/night and weekday pattern, with O2, flow and NOx following the load.
+ * whose load follows a day/night and weekday pattern, with O2, flow and NOx following the load,
+ * and CO2 (when the channel set has it) following O2 through the fuel's CO2max:
+ * `CO2dry = CO2max · (20.9 − O2dry)/20.9` (REFERENCES.md §1, complete combustion).
  * The month carries the faults an officer meets in practice, at fixed, documented times:
  * - a calibration hour (status "calibration", analyser values show zero and span gas);
  * - an analyser outage (gas analyser cells blank, status "fault");
  * - a burner fault that drives NOx and CO above any usual limit for about 45 minutes;
  * - a few cells where the logger wrote "----" instead of a number;
+ * - a slow span drift of the CO2 analyser over three and a half days (its reading falls to
+ *   85 % of the true value, then the span is readjusted), which the logger does not notice —
+ *   status stays "OK" — but the O2/CO2 plausibility check does;
  * - the end of summer time, when the wall clock shows 02:00–02:59 twice (if the zone has DST).
  *
  * Output is deterministic for a given seed: the same call writes the same numbers.
  */
 import { PassThrough, type Writable } from 'node:stream';
 import { tzOffset } from '@date-fns/tz';
+import { type GaseousFuel, stoichiometry } from '@flueledger/calc';
 import ExcelJS from 'exceljs';
 import { LocalTimeConverter, formatWall, millisecondsInMinute } from './parse/local-time';
 
@@ -32,15 +38,29 @@ export interface DemoChannel {
 }
 
 /**
+ * The invented Northmoor mill's grid gas (H-gas) as its 2026 lab report gives it, mol % — the
+ * analysis seeds/02_demo_setup.ts stores for Boiler 2's fuel, so the demo month's CO2 and the
+ * review's plausibility check use the same CO2max.
+ */
+export const northmoorGridGas2026: GaseousFuel = {
+  kind: 'gas',
+  composition: { CH4: 93.2, C2H6: 3.6, C3H8: 0.8, C4H10: 0.3, CO2: 0.9, N2: 1.2 },
+};
+
+/** CO2max of that gas, % dry (about 11.96), from @flueledger/calc's stoichiometry (REFERENCES.md §1). */
+export const northmoorGasCo2MaxPercentDry = stoichiometry(northmoorGridGas2026).co2MaxPercentDry;
+
+/**
  * The logger columns of the invented Northmoor mill's Boiler 2 stack (names as its logger writes
- * them, units in a second header row): the six monitored channels of the demo set-up plus SO2 and
- * load, which the logger records but the stack has no channel for.
+ * them, units in a second header row): the seven monitored channels of the demo set-up plus SO2
+ * and load, which the logger records but the stack has no channel for.
  */
 export const northmoorBoiler2Channels: readonly DemoChannel[] = [
   { header: 'K2_NOX', unit: 'mg/Nm3', parameter: 'NOx', decimals: 1, analyser: true },
   { header: 'K2_CO', unit: 'mg/Nm3', parameter: 'CO', decimals: 1, analyser: true },
   { header: 'K2_SO2', unit: 'mg/Nm3', parameter: 'SO2', decimals: 2, analyser: true },
   { header: 'K2_O2', unit: '%', parameter: 'O2', decimals: 2, analyser: true },
+  { header: 'K2_CO2', unit: '%', parameter: 'CO2', decimals: 2, analyser: true },
   { header: 'K2_H2O', unit: '%', parameter: 'H2O', decimals: 2, analyser: false },
   { header: 'K2_FLOW', unit: 'Nm3/h', parameter: 'flow', decimals: 0, analyser: false },
   { header: 'K2_TEMP', unit: '°C', parameter: 'temperature', decimals: 1, analyser: false },
@@ -68,6 +88,11 @@ export interface DemoMonthOptions {
   seed?: number;
   /** Write the faults listed above (default true); false gives a clean month (benchmarks). */
   faults?: boolean;
+  /**
+   * CO2max of the fuel, % dry, from which a CO2 channel follows O2 (default: the Northmoor grid
+   * gas's, {@link northmoorGasCo2MaxPercentDry}).
+   */
+  co2MaxPercentDry?: number;
   /** Title lines above the header (default: a logger-style title). */
   titleLines?: string[];
 }
@@ -90,8 +115,23 @@ export interface DemoEvents {
   outage: { from: string; to: string };
   spike: { from: string; to: string };
   textCells: { from: string; to: string; channel: string };
+  /**
+   * The CO2 analyser's span drift (null without a CO2 channel): the reading falls linearly from the
+   * true value at `from` to `(100 + worstSpanErrorPercent) %` of it at `to`, then is right again.
+   */
+  co2Drift: { from: string; to: string; channel: string; worstSpanErrorPercent: number } | null;
   dstRepeatedHour: string | null;
 }
+
+/**
+ * How far the CO2 analyser's span has drifted when it is readjusted, % of reading. Beyond the
+ * review's 10 % plausibility tolerance (common practice) for about the drift's last day, so the
+ * demo shows flagged hours and, before them, drifting hours the check rightly lets pass.
+ */
+export const co2DriftWorstSpanErrorPercent = -15;
+
+/** CO2 span gas of the calibration hour, % (a typical bottle for a 0–20 % CO2 range). */
+const co2SpanGasPercent = 16;
 
 /** mulberry32: a small, fast, seedable generator (deterministic demo data, not cryptography). */
 function seededRandom(seed: number): () => number {
@@ -116,6 +156,7 @@ interface EventWindows {
   spike: [number, number];
   textCells: [number, number];
   textChannel: number;
+  co2Drift: [number, number];
 }
 
 /** Fault windows as wall-clock [from, to) of the minute-end label, on fixed days of the month. */
@@ -128,6 +169,8 @@ function eventWindows(year: number, monthIndex: number, channels: readonly DemoC
     spike: [at(21, 6, 11), at(21, 6, 56)],
     textCells: [at(9, 22, 14), at(9, 22, 19)],
     textChannel,
+    // From a Friday's midnight to the Monday morning when the technician readjusts the span.
+    co2Drift: [at(16, 0, 1), at(19, 10, 1)],
   };
 }
 
@@ -137,7 +180,12 @@ function eventWindows(year: number, monthIndex: number, channels: readonly DemoC
  */
 export function* demoMonthRows(options: DemoMonthOptions): Generator<DemoRow> {
   const channels = options.channels ?? demoBoilerChannels;
-  const random = seededRandom(options.seed ?? 20261001);
+  const seed = options.seed ?? 20261001;
+  const random = seededRandom(seed);
+  // CO2 draws from its own stream, so adding a CO2 column leaves every other column's numbers as
+  // they were for the same seed.
+  const co2Random = seededRandom(seed ^ 0x0c02c02);
+  const co2Max = options.co2MaxPercentDry ?? northmoorGasCo2MaxPercentDry;
   const converter = new LocalTimeConverter(options.timeZone);
   const monthIndex = options.month - 1;
   const startUtc = firstInstantOfLocalDay(converter, Date.UTC(options.year, monthIndex, 1));
@@ -151,10 +199,8 @@ export function* demoMonthRows(options: DemoMonthOptions): Generator<DemoRow> {
   let o2Drift = 0;
   let coDrift = 0;
   let tempDrift = 0;
-  const gaussian = (): number => {
-    const u = Math.max(random(), 1e-12);
-    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * random());
-  };
+  const gaussian = gaussianFrom(random);
+  const co2Gaussian = gaussianFrom(co2Random);
 
   for (let startMs = startUtc; startMs < endUtc; startMs += millisecondsInMinute) {
     const endMs = startMs + millisecondsInMinute;
@@ -189,9 +235,23 @@ export function* demoMonthRows(options: DemoMonthOptions): Generator<DemoRow> {
     }
     if (calibrating) status = 'calibration';
     if (outage) status = 'fault';
+    // Span drift: the CO2 reading is the true value times a gain that falls linearly to
+    // (100 + worst) % and snaps back when the span is readjusted.
+    const co2Gain = inWindow(wallMs, windows.co2Drift)
+      ? 1 + (co2DriftWorstSpanErrorPercent / 100) * ((wallMs - windows.co2Drift[0]) / (windows.co2Drift[1] - windows.co2Drift[0]))
+      : 1;
 
     const values = channels.map((channel, k): number | null | string => {
       if (outage && channel.analyser) return null;
+      if (channel.parameter === 'CO2') {
+        // Own random stream (see above); NDIR noise of a few hundredths of a per cent.
+        if (calibrating) {
+          const span = wallMs - windows.calibration[0] >= 30 * millisecondsInMinute;
+          return round((span ? co2SpanGasPercent : 0) + co2Gaussian() * 0.02, channel.decimals);
+        }
+        const co2PercentDry = (co2Max * (20.9 - o2PercentDry)) / 20.9;
+        return round(co2Gain * co2PercentDry + co2Gaussian() * 0.03, channel.decimals);
+      }
       if (calibrating && channel.analyser) {
         // Zero gas for the first half of the hour, span gas for the second.
         const span = wallMs - windows.calibration[0] >= 30 * millisecondsInMinute;
@@ -206,7 +266,7 @@ export function* demoMonthRows(options: DemoMonthOptions): Generator<DemoRow> {
         SO2: so2MgPerNm3Dry,
         CO: coMgPerNm3Dry,
         dust: Math.max(0, 0.8 + gaussian() * 0.2),
-        CO2: 11.7 * (21 - o2PercentDry) / 21,
+        CO2: (co2Max * (20.9 - o2PercentDry)) / 20.9,
         O2: o2PercentDry,
         H2O: h2oPercentWet,
         flow: flowNm3PerHourWet,
@@ -220,10 +280,19 @@ export function* demoMonthRows(options: DemoMonthOptions): Generator<DemoRow> {
   }
 }
 
+/** Gaussian deviates (Box–Muller) from a uniform generator. */
+function gaussianFrom(random: () => number): () => number {
+  return () => {
+    const u = Math.max(random(), 1e-12);
+    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * random());
+  };
+}
+
 /** Where the faults are, for README walkthroughs and tests. */
 export function demoMonthEvents(options: DemoMonthOptions): DemoEvents {
   const channels = options.channels ?? demoBoilerChannels;
   const w = eventWindows(options.year, options.month - 1, channels);
+  const co2Channel = channels.find((c) => c.parameter === 'CO2');
   const range = ([from, to]: [number, number]): { from: string; to: string } => ({ from: formatWall(from), to: formatWall(to - millisecondsInMinute) });
   let repeated: string | null = null;
   const converter = new LocalTimeConverter(options.timeZone);
@@ -243,6 +312,7 @@ export function demoMonthEvents(options: DemoMonthOptions): DemoEvents {
     outage: range(w.outage),
     spike: range(w.spike),
     textCells: { ...range(w.textCells), channel: channels[w.textChannel]?.header ?? '' },
+    co2Drift: co2Channel ? { ...range(w.co2Drift), channel: co2Channel.header, worstSpanErrorPercent: co2DriftWorstSpanErrorPercent } : null,
     dstRepeatedHour: repeated,
   };
 }
