@@ -3,6 +3,7 @@ import { LIMIT_UNITS_WITHOUT_REFERENCE_O2 } from '@flueledger/calc';
 import type { FFactorSource, FuelKind, FuelType } from '../core/api/fuels-api';
 import type { AveragingPeriod, LimitUnit, Pollutant } from '../core/api/permits-api';
 import type { Basis, ChannelParameter, ChannelUnit, Conditions, Regime, UnitType } from '../core/api/sites-api';
+import { formatNumber } from './format-number';
 
 /*
  * How the set-up vocabulary reads on screen: the trade's own terms (emission limit value,
@@ -86,7 +87,7 @@ export function unitLabel(unit: ChannelUnit | LimitUnit | string): string {
 
 /** An analyser's range as people read it ("0 – 25 %"), or '' when it is not known. */
 export function analyserRangeLabel(channel: { unit: ChannelUnit; rangeMin: number | null; rangeMax: number | null }): string {
-  return channel.rangeMin !== null && channel.rangeMax !== null ? `${channel.rangeMin} – ${channel.rangeMax} ${unitLabel(channel.unit)}` : '';
+  return channel.rangeMin !== null && channel.rangeMax !== null ? `${formatNumber(channel.rangeMin)} – ${formatNumber(channel.rangeMax)} ${unitLabel(channel.unit)}` : '';
 }
 
 export const basisLabels: Record<Basis, string> = { dry: 'Dry basis', wet: 'Wet basis' };

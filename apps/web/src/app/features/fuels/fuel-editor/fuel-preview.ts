@@ -114,7 +114,7 @@ export function toCalcFuel(input: Pick<FuelPreviewInput, 'fuelType' | 'compositi
 }
 
 const STOICHIOMETRY_SOURCE =
-  'computed from the analysis: complete combustion, O2 demand = C + H/4 + S − O/2 per kmol, dry air with 21 % O2, 22.414 Nm3/kmol (REFERENCES §1; Turns, An Introduction to Combustion, ch. 2)';
+  'computed from the analysis: complete combustion, O2 demand = C + H/4 + S − O/2 per kmol, dry air with 21 % O2, 22.414 Nm3/kmol (Turns, An Introduction to Combustion, ch. 2)';
 
 function heatingValueSource(source: HeatingValueSource, kind: FuelKind): string {
   switch (source) {
@@ -176,7 +176,7 @@ function previewRows(fuel: Fuel, input: FuelPreviewInput): PreviewRow[] {
       value: st.flueGasDryNm3,
       unit: `Nm3/${per} fuel`,
       digits: 3,
-      how: 'CO2 + SO2 + N2 of complete combustion with stoichiometric air (REFERENCES §1)',
+      how: 'CO2 + SO2 + N2 of complete combustion with stoichiometric air (Turns, An Introduction to Combustion, ch. 2)',
     },
     {
       key: 'flueGasWetNm3',
@@ -206,7 +206,7 @@ function previewRows(fuel: Fuel, input: FuelPreviewInput): PreviewRow[] {
         value: at.airRatio,
         unit: '–',
         digits: 3,
-        how: 'λ = 1 + (V0 dry flue gas / V0 air) · O2/(21 − O2), complete combustion (REFERENCES §1)',
+        how: 'λ = 1 + (V0 dry flue gas / V0 air) · O2/(21 − O2), complete combustion (Turns, An Introduction to Combustion, ch. 2)',
       },
       { key: 'excessAirPercent', label: `Excess air ${where}`, value: at.excessAirPercent, unit: '%', digits: 1, how: '100 · (λ − 1)' },
       {

@@ -4,7 +4,7 @@ import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angula
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
-import { MatFormFieldModule } from '@angular/material/form-field';
+import { MAT_FORM_FIELD_DEFAULT_OPTIONS, MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { describeLimit } from '@flueledger/calc';
@@ -64,7 +64,12 @@ type CriterionType = LimitCriterion['type'];
     MatButtonModule,
     ConflictNotice,
   ],
-  providers: [RecordEditor],
+  providers: [
+    RecordEditor,
+    // Several hints here run to two or three lines (the IED defaults they quote): below a field
+    // they take the room they need instead of running over the next field.
+    { provide: MAT_FORM_FIELD_DEFAULT_OPTIONS, useValue: { appearance: 'outline', subscriptSizing: 'dynamic' } },
+  ],
   templateUrl: './limit-dialog.html',
   styleUrl: './limit-dialog.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -121,6 +121,11 @@ describe('PermitEditor', () => {
 
     const dialog = await documentLoader.getHarness(MatDialogHarness);
     expect(await (await dialogField(dialog, 'Reference O2')).getValue()).toBe('3');
+    // The dialog's long hints (the IED defaults they quote) take the lines they need below their
+    // field instead of running over the next one.
+    const fields = document.querySelectorAll('mat-dialog-container mat-form-field');
+    expect(fields.length).toBeGreaterThan(5);
+    expect(document.querySelectorAll('mat-dialog-container .mat-mdc-form-field-subscript-dynamic-size')).toHaveLength(fields.length);
     // IED Annex V Part 3 point 9: NOx confidence interval 20 % of the ELV.
     expect(await (await dialogField(dialog, 'Confidence interval')).getValue()).toBe('20');
 

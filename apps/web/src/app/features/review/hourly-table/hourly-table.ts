@@ -3,9 +3,10 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatPaginatorModule } from '@angular/material/paginator';
 import { MatTableModule } from '@angular/material/table';
 
+import type { Limit } from '../../../core/api/permits-api';
 import type { Review } from '../../../core/api/review-api';
 import { ClientTable } from '../../../shared/client-table';
-import { formatNumber } from '../../../shared/format-number';
+import { formatInUnit, formatNumber } from '../../../shared/format-number';
 import { unitLabel } from '../../../shared/setup-labels';
 import { formatZoned } from '../../../shared/time/zoned-time';
 import { HourRow, hourRows } from '../review-series';
@@ -23,6 +24,20 @@ const statusLabels: Record<string, string> = {
   out_of_range: 'Out of range',
   startup_shutdown: 'Start-up or shut-down',
 };
+
+type LimitColumns = Review['hourly']['limits'];
+
+function sameColumn(a: readonly unknown[] | undefined, b: readonly unknown[] | undefined): boolean {
+  return a !== undefined && b !== undefined && a.length === b.length && a.every((value, i) => value === b[i]);
+}
+
+/** Whether two limits' corrected hours are the same figures in the same unit, at the same reference O2. */
+function sameHourlyValues(a: Limit, b: Limit, hourly: LimitColumns): boolean {
+  if (a.unit !== b.unit || a.referenceO2Percent !== b.referenceO2Percent || a.basis !== b.basis || a.elv !== b.elv) return false;
+  const left = hourly[a.id];
+  const right = hourly[b.id];
+  return sameColumn(left?.value, right?.value) && sameColumn(left?.status, right?.status);
+}
 
 export function statusLabel(status: string | null | undefined): string {
   if (!status) return '—';
@@ -44,15 +59,24 @@ export class HourlyTable {
 
   protected readonly formatZoned = formatZoned;
   protected readonly formatNumber = formatNumber;
+  protected readonly formatInUnit = formatInUnit;
   protected readonly statusLabel = statusLabel;
 
   protected readonly channel = computed(() => this.review().channels.find((c) => c.id === this.channelId()) ?? null);
-  /** The limits judged on this channel: their corrected hourly values sit beside the measured one. */
-  protected readonly limits = computed(() =>
-    this.review()
-      .limits.filter((entry) => entry.channelId === this.channelId())
-      .map((entry) => entry.limit),
-  );
+  /**
+   * The limits judged on this channel: their corrected hourly values sit beside the measured one.
+   * Limits that differ only in their averaging period (a monthly, a daily and an hourly NOx limit at
+   * the same reference O2) have the same corrected hours: those get one column, not three alike.
+   */
+  protected readonly limits = computed(() => {
+    const hourly = this.review().hourly.limits;
+    const shown: Limit[] = [];
+    for (const { limit } of this.review().limits.filter((entry) => entry.channelId === this.channelId())) {
+      const twin = shown.find((other) => sameHourlyValues(other, limit, hourly));
+      if (!twin) shown.push(limit);
+    }
+    return shown;
+  });
   protected readonly columns = computed(() => ['hour', 'value', 'status', 'coverage', ...this.limits().map((l) => `limit-${l.id}`), 'drill']);
   protected readonly unitLabel = unitLabel;
 

@@ -2,7 +2,7 @@ import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 
 import type { ReviewLimit, Verdict } from '../../../core/api/review-api';
-import { formatNumber } from '../../../shared/format-number';
+import { formatInUnit, formatNumber } from '../../../shared/format-number';
 import { unitLabel } from '../../../shared/setup-labels';
 import { formatZoned } from '../../../shared/time/zoned-time';
 
@@ -31,6 +31,7 @@ export class LimitVerdicts {
   readonly timeZone = input<string | null>(null);
 
   protected readonly formatNumber = formatNumber;
+  protected readonly formatInUnit = formatInUnit;
   protected readonly formatZoned = formatZoned;
   protected readonly unitLabel = unitLabel;
 

@@ -10,6 +10,7 @@ import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatInputHarness } from '@angular/material/input/testing';
 import { MatRadioGroupHarness } from '@angular/material/radio/testing';
+import { MatSelectHarness } from '@angular/material/select/testing';
 import { MatTableHarness } from '@angular/material/table/testing';
 import { provideRouter } from '@angular/router';
 import { provideCharts, withDefaultRegisterables } from 'ng2-charts';
@@ -18,7 +19,8 @@ import { Me, Role } from '../../../core/api/auth-api';
 import { RawReading } from '../../../core/api/review-api';
 import { Auth } from '../../../core/auth/auth';
 import { meAs } from '../../../testing/me-fixtures';
-import { emptyDailyFixture, emptyHourlyFixture, readingsFixture, reviewFixture, site, stack } from '../testing/review-fixtures';
+import { coChannel } from '../../imports/testing/import-fixtures';
+import { emptyDailyFixture, emptyHourlyFixture, noxLimit, readingsFixture, reviewFixture, site, stack } from '../testing/review-fixtures';
 import { ReviewPage } from './review-page';
 
 async function settle(fixture: ComponentFixture<unknown>): Promise<void> {
@@ -106,6 +108,82 @@ describe('ReviewPage', () => {
     expect(cells['hour'].text[0]).toMatch(/1 Nov 2026, 00:00/);
     expect(cells['status'].text[5]).toBe('Not valid');
     expect(cells['coverage'].text[5]).toBe('20 %');
+    // mg/Nm3 with one decimal, always: a column of figures lines up (NOx 60 + i, corrected 61 + i).
+    expect(cells['value'].text.slice(0, 2)).toEqual(['60.0', '61.0']);
+    expect(cells['limit-lim-nox-day'].text[0]).toBe('61.0');
+  });
+
+  it('opens the chart and the table on NOx, not on the limit the API happens to list first', async () => {
+    await open('officer', '2026-11');
+    const base = reviewFixture();
+    const coLimit = { ...noxLimit, id: 'lim-co-day', pollutant: 'CO' as const, summary: 'CO ≤ 100 mg/Nm3, dry, 3 % O2, daily average' };
+    reviewRequest().flush(
+      reviewFixture({
+        channels: [...base.channels, { id: coChannel.id, parameter: 'CO', unit: 'mg/Nm3', basis: 'dry', conditions: 'standard', intervalMinutes: 1 }],
+        limits: [{ ...base.limits[0], limit: coLimit, channelId: coChannel.id, verdict: 'compliant', exceedances: [], nearMisses: [] }, base.limits[0]],
+      }),
+    );
+    await settle(fixture);
+
+    const channel = await loader.getHarness(MatSelectHarness.with({ selector: '.chart-controls mat-select' }));
+    expect(await channel.getValueText()).toBe('NOx (as NO2) · mg/Nm3, dry');
+    // The verdicts read in the same order: NOx before CO.
+    const verdicts = Array.from((fixture.nativeElement as HTMLElement).querySelectorAll('[aria-label="Verdicts per limit"] .pollutant')).map((el) => el.textContent?.trim());
+    expect(verdicts).toEqual(['NOx ≤ 100 mg/Nm3', 'CO ≤ 100 mg/Nm3']);
+  });
+
+  it('shows one corrected column for NOx limits whose corrected hours are the same figures', async () => {
+    await open('officer', '2026-11');
+    const base = reviewFixture();
+    const monthly = { ...noxLimit, id: 'lim-nox-month', period: 'month' as const, summary: 'NOx ≤ 100 mg/Nm3, dry, 3 % O2, monthly average' };
+    reviewRequest().flush(
+      reviewFixture({
+        hourly: { ...base.hourly, limits: { ...base.hourly.limits, 'lim-nox-month': base.hourly.limits['lim-nox-day'] } },
+        limits: [...base.limits, { ...base.limits[0], limit: monthly, verdict: 'compliant', exceedances: [], nearMisses: [] }],
+      }),
+    );
+    await settle(fixture);
+
+    const hourly = await loader.getHarness(MatTableHarness.with({ selector: '[aria-label="Hourly values"]' }));
+    const headers = await (await hourly.getHeaderRows())[0].getCellTextByColumnName();
+    expect(Object.keys(headers).filter((column) => column.startsWith('limit-'))).toEqual(['limit-lim-nox-day']);
+    expect(headers['limit-lim-nox-day']).toBe('Corrected (mg/Nm3, 3 % O2)');
+  });
+
+  function flushEmptyMonth(): void {
+    reviewRequest().flush(
+      reviewFixture({
+        from: '2026-11-30T23:00:00.000Z',
+        to: '2026-12-31T23:00:00.000Z',
+        hourly: emptyHourlyFixture('2026-11-30T23:00:00.000Z', 744),
+        daily: emptyDailyFixture,
+        limits: reviewFixture().limits.map((entry) => ({ ...entry, verdict: 'insufficient_data' as const, exceedances: [], nearMisses: [] })),
+      }),
+    );
+  }
+
+  it('tells the officer to import when the month holds no readings, instead of an empty chart and table', async () => {
+    await open('officer', '2026-12');
+    flushEmptyMonth();
+    await settle(fixture);
+
+    expect(text(fixture)).toContain('No readings are stored for this stack in December 2026.');
+    const importLink = (fixture.nativeElement as HTMLElement).querySelector<HTMLAnchorElement>('.no-data a');
+    expect(importLink?.textContent).toContain("Import this stack's data");
+    expect(importLink?.getAttribute('href')).toBe('/imports/stacks/stack-b2');
+    expect(await loader.getAllHarnesses(MatTableHarness.with({ selector: '[aria-label="Hourly values"]' }))).toHaveLength(0);
+    expect((fixture.nativeElement as HTMLElement).querySelector('canvas')).toBeNull();
+    // The limits that apply stay in view.
+    expect(text(fixture)).toContain('Not enough valid data');
+  });
+
+  it('tells the auditor who brings the data in, with no import link', async () => {
+    await open('auditor', '2026-12');
+    flushEmptyMonth();
+    await settle(fixture);
+
+    expect(text(fixture)).toContain('once an environmental officer imports');
+    expect((fixture.nativeElement as HTMLElement).querySelector('.no-data a')).toBeNull();
   });
 
   it('lets the API pick the latest month with data when the URL names none, and shows that month', async () => {

@@ -8,12 +8,13 @@ import { Router, RouterLink } from '@angular/router';
 import { catchError, forkJoin, of, switchMap } from 'rxjs';
 
 import { ImportsApi } from '../../../core/api/imports-api';
-import { Review, ReviewApi } from '../../../core/api/review-api';
+import { Review, ReviewApi, ReviewLimit } from '../../../core/api/review-api';
 import { Site, SitesApi, StackWithChannels } from '../../../core/api/sites-api';
 import { Auth } from '../../../core/auth/auth';
 import { CalcCaution } from '../../../shared/calc-caution';
 import { channelLabel } from '../../../shared/channel-label';
 import { formatNumber } from '../../../shared/format-number';
+import { pollutants } from '../../../shared/setup-labels';
 import { StackPicker } from '../../../shared/stack-picker/stack-picker';
 import { MonthKey, formatZoned, isMonthKey, monthKeyOf, monthLabel, shiftMonth, zonedMonthRange } from '../../../shared/time/zoned-time';
 import { HourlyTable } from '../hourly-table/hourly-table';
@@ -21,6 +22,20 @@ import { LimitVerdicts } from '../limit-verdicts/limit-verdicts';
 import { ReadingsPanel } from '../readings-panel/readings-panel';
 import { ReviewChart } from '../review-chart/review-chart';
 import { hasValues } from '../review-series';
+
+/**
+ * The limits in the order people read a permit's table: by pollutant as the permit form lists
+ * them (NOx, SO2, CO, dust …), the API's order within a pollutant. The first one is what the
+ * chart and the hourly table open on.
+ */
+export function orderLimits(limits: readonly ReviewLimit[]): ReviewLimit[] {
+  const rank = (entry: ReviewLimit) => {
+    const index = (pollutants as readonly string[]).indexOf(entry.limit.pollutant);
+    return index === -1 ? pollutants.length : index;
+  };
+  // Array.prototype.sort is stable, so limits of one pollutant keep the API's order.
+  return [...limits].sort((a, b) => rank(a) - rank(b));
+}
 
 interface StackContext {
   stack: StackWithChannels;
@@ -84,17 +99,18 @@ export class ReviewPage {
   protected readonly chosenLimitId = signal<string | null>(null);
   protected readonly drillHour = signal<string | null>(null);
 
+  protected readonly limits = computed(() => orderLimits(this.review()?.limits ?? []));
   protected readonly channels = computed(() => this.review()?.channels ?? []);
   protected readonly channelId = computed(() => {
     const channels = this.channels();
     const chosen = this.chosenChannelId();
     if (chosen && channels.some((c) => c.id === chosen)) return chosen;
     // Start with the channel of the first limit: that is what the permit is about.
-    const firstLimitChannel = this.review()?.limits.find((entry) => entry.channelId)?.channelId;
+    const firstLimitChannel = this.limits().find((entry) => entry.channelId)?.channelId;
     return (channels.find((c) => c.id === firstLimitChannel) ?? channels[0])?.id ?? null;
   });
   protected readonly channel = computed(() => this.channels().find((c) => c.id === this.channelId()) ?? null);
-  protected readonly limitsOfChannel = computed(() => (this.review()?.limits ?? []).filter((entry) => entry.channelId === this.channelId()));
+  protected readonly limitsOfChannel = computed(() => this.limits().filter((entry) => entry.channelId === this.channelId()));
   protected readonly limitId = computed(() => {
     const chosen = this.chosenLimitId();
     const limits = this.limitsOfChannel();
@@ -106,9 +122,14 @@ export class ReviewPage {
       .slice()
       .sort((a, b) => Math.abs(b.deviationPercent) - Math.abs(a.deviationPercent)),
   );
+  /**
+   * Whether the month holds any stored hour: a value, or an hour judged without one (all readings
+   * invalidated, say), which still has to be shown so it can be drilled into and corrected.
+   */
   protected readonly hasData = computed(() => {
     const review = this.review();
-    return review ? hasValues(review) : false;
+    if (!review) return false;
+    return hasValues(review) || Object.values(review.hourly.channels).some((columns) => columns.status.some((code) => code !== null));
   });
 
   protected readonly channelLabel = channelLabel;
