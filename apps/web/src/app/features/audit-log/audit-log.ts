@@ -10,9 +10,10 @@ import { MatTableModule } from '@angular/material/table';
 import { catchError, map, of, switchMap, tap } from 'rxjs';
 
 import { AuditEntry, AuditLogApi, AuditLogQuery } from '../../core/api/audit-log-api';
+import { actionLabel, entityLabel } from './action-label';
 import { describeChanges } from './changes';
 
-type AuditRow = AuditEntry & { changes: ReturnType<typeof describeChanges> };
+type AuditRow = AuditEntry & { changes: ReturnType<typeof describeChanges>; actionText: string; entityText: string };
 
 @Component({
   selector: 'fl-audit-log',
@@ -67,7 +68,12 @@ export class AuditLog {
           this.status.set('failed');
           return;
         }
-        this.rows.set(page.items.map((entry) => ({ ...entry, changes: describeChanges(entry.before, entry.after) })));
+        this.rows.set(page.items.map((entry) => ({
+          ...entry,
+          changes: describeChanges(entry.before, entry.after),
+          actionText: actionLabel(entry.action),
+          entityText: entityLabel(entry.entity),
+        })));
         this.total.set(page.total);
         this.status.set('loaded');
       });
