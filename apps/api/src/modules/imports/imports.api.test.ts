@@ -8,6 +8,7 @@ import { createOwnerDb, createTestApp, type TestApp } from '../../test-support/t
 import { demoBoilerChannels, demoMonthRows, type DemoMonthOptions } from './demo-data';
 import { createDemoStack, demoWorkbookBytes, type DemoStack } from './import-fixtures';
 import { commitTestHooks } from './imports.service';
+import { recomputeStack } from '../results/results.service';
 
 jest.setTimeout(240_000);
 
@@ -88,6 +89,30 @@ async function readings(orgId: string, where: (qb: Knex.QueryBuilder) => void, c
   });
 }
 
+interface StoredHours {
+  channels: { channel_id: string; hour_start: Date; value: number | null; status: string; coverage: number; readings_valid: number; readings_total: number; reason: string | null }[];
+  limits: Record<string, unknown>[];
+}
+
+/** The stored hourly values of a stack's channels and limits (without their computation times). */
+async function storedHours(trx: Knex.Transaction, channelIds: string[]): Promise<StoredHours> {
+  const channels = (await trx('hourly_values')
+    .whereIn('channel_id', channelIds)
+    .orderBy(['channel_id', 'hour_start'])
+    .select('channel_id', 'hour_start', 'value', 'status', 'coverage', 'readings_valid', 'readings_total', 'reason')) as StoredHours['channels'];
+  const limits = (await trx('limit_hourly_values')
+    .whereIn('channel_id', channelIds)
+    .orderBy(['limit_id', 'hour_start'])
+    .select('*')) as Record<string, unknown>[];
+  for (const l of limits) delete l.computed_at;
+  return { channels, limits };
+}
+
+/** Numbers equal to 1e-9 relative (a sum taken in another order may differ in its last bits). */
+function roundedForCompare<T>(rows: T[]): T[] {
+  return rows.map((row) => Object.fromEntries(Object.entries(row as object).map(([k, v]) => [k, typeof v === 'number' && !Number.isInteger(v) ? Number(v.toPrecision(10)) : v]))) as T[];
+}
+
 async function importState(orgId: string, importId: string): Promise<string> {
   return asOwnerInTenant(owner, orgId, async (trx) => (await trx('imports').where({ id: importId }).first('state')).state as string);
 }
@@ -164,6 +189,28 @@ describe('a month of one-minute data (the demo workbook)', () => {
     expect(mismatches).toBe(0);
     const draft = await officer.get(`/api/imports/${importId}`);
     expect(draft.body).toMatchObject({ state: 'committed', counts: { inserted: expected.size }, progress: { phase: 'done' } });
+  });
+
+  it('stores the hourly values a full recomputation from the stored readings gives', async () => {
+    // The commit computed them from staging (nothing was stored in those hours before); a
+    // recomputation reads the stored readings back. Compared in one transaction, rolled back.
+    const channelIds = Object.values(stack.channelIds);
+    const rollback = new Error('rollback');
+    let committed: StoredHours | undefined;
+    let recomputed: StoredHours | undefined;
+    await asOwnerInTenant(owner, org.id, async (trx) => {
+      committed = await storedHours(trx, channelIds);
+      await recomputeStack({ tenantId: org.id, db: trx }, stack.stackId, { from: Date.UTC(2026, 8, 30), to: Date.UTC(2026, 10, 2) });
+      recomputed = await storedHours(trx, channelIds);
+      throw rollback;
+    }).catch((error: unknown) => {
+      if (error !== rollback) throw error;
+    });
+    // October local time is 31 days and one extra hour (the clocks go back): 745 hours a channel.
+    expect(committed!.channels).toHaveLength(channelIds.length * 745);
+    expect(committed!.limits.length).toBeGreaterThan(0);
+    expect(roundedForCompare(committed!.channels)).toEqual(roundedForCompare(recomputed!.channels));
+    expect(roundedForCompare(committed!.limits)).toEqual(roundedForCompare(recomputed!.limits));
   });
 
   it('changes nothing when the same file is imported again', async () => {
@@ -383,6 +430,26 @@ describe('PUT /api/imports/:importId/mapping', () => {
 });
 
 // ---- conflicts and rollback ---------------------------------------------------------------------
+
+describe('an import that completes an hour begun by an earlier one', () => {
+  it('stores the hour from the readings of both', async () => {
+    const hourStack = await freshStack('Half Hour Works');
+    // Interval-end times 10:01 … 11:00 local (UTC+2): readings start 08:00 … 08:59 UTC.
+    const minute = (m: number) => `06.10.2026 ${m === 60 ? '11:00' : `10:${String(m).padStart(2, '0')}`}`;
+    const firstHalf = csv(Array.from({ length: 30 }, (_, i) => [minute(i + 1), '50', '3']));
+    const secondHalf = csv(Array.from({ length: 30 }, (_, i) => [minute(i + 31), '60', '3']));
+    for (const [file, name] of [[firstHalf, 'first-half.csv'], [secondHalf, 'second-half.csv']] as const) {
+      const res = await upload(officer, hourStack.stackId, file, name);
+      expect(res.status).toBe(201);
+      const commit = await officer.post(`/api/imports/${res.body.id}/commit`, {});
+      expect(commit.body).toMatchObject({ inserted: 60, conflicts: 0 });
+    }
+    const hours = await asOwnerInTenant(owner, org.id, (trx) =>
+      trx('hourly_values').where({ channel_id: hourStack.channelIds.NOx }).orderBy('hour_start').select('hour_start', 'value', 'readings_total', 'readings_valid', 'status'),
+    );
+    expect(hours).toEqual([{ hour_start: new Date('2026-10-06T08:00:00Z'), value: 55, readings_total: 60, readings_valid: 60, status: 'valid' }]);
+  });
+});
 
 describe('conflicts and rollback', () => {
   let conflictStack: DemoStack;

@@ -8,8 +8,9 @@ import type { Knex } from 'knex';
 import { audit } from '../../lib/audit';
 import { withScope } from '../../lib/db';
 import { AppError, Conflict, Unprocessable, ValidationError, type ErrorDetail } from '../../lib/errors';
-import { onReadingsChanged } from '../readings/readings.hooks';
+import { onReadingsChanged, prepareReadingsChange, type PreparedReadingsChange } from '../readings/readings.hooks';
 import { ensureMonthPartitions, lockStackReadings } from '../readings/readings.store';
+import { wholeHours } from '../results/results.service';
 import {
   clearStaging,
   findCommittedTwin,
@@ -21,6 +22,7 @@ import {
   listImports,
   loadFile,
   loadStackMap,
+  loadStagedReadings,
   relevantProblems,
   saveStackMap,
   stageParsed,
@@ -479,14 +481,20 @@ function incomingSql(ctx: ImportCtx, row: ImportRow, mapped: MappedColumns, noth
   };
 }
 
-/** True when no current reading exists for the mapped channels within the import's span. */
+/**
+ * True when no current reading exists for the mapped channels within the whole hours covering the
+ * import's span. Then every incoming value is new, and the channels' current readings in those
+ * hours after the commit are exactly the incoming ones (so their hourly values can be computed
+ * from staging, without reading them back).
+ */
 async function nothingStoredInSpan(ctx: ImportCtx, row: ImportRow, mapped: MappedColumns): Promise<boolean> {
   if (!row.span_from || !row.span_to) return false;
+  const hours = wholeHours(row.span_from.getTime(), row.span_to.getTime());
   const result = await ctx.db.raw(
     `select not exists (
        select 1 from readings where tenant_id = ? and channel_id = any(?::uuid[]) and t >= ? and t < ? and superseded_at is null
      ) as empty`,
-    [ctx.tenantId, mapped.channelIds, row.span_from, row.span_to],
+    [ctx.tenantId, mapped.channelIds, new Date(hours.from), new Date(hours.to)],
   );
   return result.rows[0].empty === true;
 }
@@ -670,25 +678,44 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
 
     if (counts.conflict > 0 && !body.replaceConflicts) throw new ConflictsFound(counts.conflict);
 
+    const hookCtx = { tenantId: ctx.tenantId, userId: ctx.userId, requestId: ctx.requestId, db: ctx.db };
+    const change = current.span_from && current.span_to ? { channelIds: mapped.channelIds, from: current.span_from, to: current.span_to } : null;
+    // Into hours that hold nothing yet, the new readings are exactly the staged ones: the hourly
+    // results are computed from staging while the database inserts (instead of reading 44,640
+    // readings per channel back afterwards), and stored after the inserts, in this transaction.
+    const prepared: PreparedReadingsChange | null =
+      nothingStored && change && counts.new > 0 ? await prepareReadingsChange(hookCtx, change, await loadStagedReadings(ctx, importId, mapped)) : null;
+
     // New readings, one channel at a time so progress moves. Channels in id order and times in
-    // order: the rows then reach the current-readings index in its own key order (tenant,
-    // channel, t), so its pages fill from left to right instead of splitting all over.
+    // order: the rows then reach the current-readings index in its own key order (channel, t), so
+    // its pages fill from left to right instead of splitting all over. Staging is read in row
+    // order (its primary key, so no sort that spills to disk): a logger writes its rows in time
+    // order; a file out of order imports just as correctly, only into less tidy index pages.
     let done = 0;
     const order = mapped.channelIds.map((channelId, k) => ({ channelId, position: mapped.positions[k]! })).sort((a, b) => (a.channelId < b.channelId ? -1 : 1));
-    for (const { channelId, position } of order) {
-      const inserted = nothingStored
-        ? await ctx.db.raw(
-            `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
-             select s.tenant_id, ?::uuid, s.t, s.vals[?], s.status, ?::uuid, ?::uuid from import_rows s
-             where s.tenant_id = ? and s.import_id = ? and s.t is not null and (s.vals[?] is not null or s.status <> 'valid')
-             order by s.t`,
-            [channelId, position, importId, ctx.userId, ctx.tenantId, importId, position],
-          )
-        : await ctx.db.raw(
-            `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
-             select ?, channel_id, t, value, status, ?, ? from import_incoming where cls = 'new' and channel_id = ? order by t`,
-            [ctx.tenantId, importId, ctx.userId, channelId],
-          );
+    for (const [n, { channelId, position }] of order.entries()) {
+      const insert = Promise.resolve(
+        nothingStored
+          ? ctx.db.raw(
+              `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
+               select s.tenant_id, ?::uuid, s.t, s.vals[?], s.status, ?::uuid, ?::uuid from import_rows s
+               where s.tenant_id = ? and s.import_id = ? and s.t is not null and (s.vals[?] is not null or s.status <> 'valid')
+               order by s.row_number`,
+              [channelId, position, importId, ctx.userId, ctx.tenantId, importId, position],
+            )
+          : ctx.db.raw(
+              `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
+               select ?, channel_id, t, value, status, ?, ? from import_incoming where cls = 'new' and channel_id = ? order by t`,
+              [ctx.tenantId, importId, ctx.userId, channelId],
+            ),
+      );
+      if (n === 0 && prepared) {
+        // Let the first INSERT reach the database, then compute the hours while it runs.
+        insert.catch(() => undefined);
+        await new Promise((resolve) => setImmediate(resolve));
+        prepared.compute();
+      }
+      const inserted = await insert;
       done += inserted.rowCount ?? 0;
       await writeProgress(deps, ctx, importId, { progress_phase: 'inserting', progress_done: done + counts.unchanged, progress_total: totalIncoming });
     }
@@ -727,11 +754,9 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
       conflicts: counts.conflict,
       nothingNew: inserted === 0,
     };
-    if (current.span_from && current.span_to && inserted > 0) {
-      await onReadingsChanged(
-        { tenantId: ctx.tenantId, userId: ctx.userId, requestId: ctx.requestId, db: ctx.db },
-        { channelIds: mapped.channelIds, from: current.span_from, to: current.span_to },
-      );
+    if (change && inserted > 0) {
+      if (prepared) await prepared.store();
+      else await onReadingsChanged(hookCtx, change);
     }
     await clearStaging(ctx, importId, false);
     await audit(ctx as Parameters<typeof audit>[0], {

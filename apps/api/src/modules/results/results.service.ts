@@ -8,9 +8,9 @@
  * limit's hours lazily, on read, when they are older than the limit, one of its channels or the
  * fuel analysis they used (or are missing for hours the pollutant has).
  */
-import { millisecondsInHour, type HourlySeries } from '@flueledger/calc';
+import { millisecondsInHour, type HourlySeries, type ReadingColumns } from '@flueledger/calc';
 import { type ChannelHourRow, channelHours, seriesFromStoredHours, validityRuleFor } from './channel-hours';
-import { type LimitPlan, deriveLimitHours, planLimit } from './limit-hours';
+import { type LimitHourRow, type LimitPlan, deriveLimitHours, planLimit } from './limit-hours';
 import {
   type StoredChannelHour,
   clampCoverage,
@@ -44,47 +44,95 @@ export interface RecomputeSummary {
 }
 
 /**
+ * The complete current readings of the changed channels within the whole hours of a change, by
+ * channel id, when the caller already holds them: an import into hours that held no current
+ * readings of its channels brings exactly these (see `planRecompute`).
+ */
+export type KnownReadings = ReadonlyMap<string, ReadingColumns>;
+
+/** The reads of a recompute are done; `compute` turns them into rows (CPU only), `store` writes them. */
+export interface RecomputePlan {
+  summary: RecomputeSummary;
+  /** Computes every channel and limit hour of the change; touches no database. */
+  compute(): RecomputeWrites;
+}
+
+/** The rows a recompute writes (from `RecomputePlan.compute`). */
+export interface RecomputeWrites {
+  summary: RecomputeSummary;
+  stacks: {
+    channelIds: string[];
+    channelRows: Map<string, ChannelHourRow[]>;
+    limits: { limitId: string; rows: LimitHourRow[] }[];
+  }[];
+  range: HourRange;
+}
+
+/**
  * Recomputes the hourly values of `channelIds` over the whole hours covering [from, to), and the
  * limit hours that depend on them.
  */
-export async function recomputeForReadings(scope: ResultsScope, change: { channelIds: readonly string[]; from: Date; to: Date }): Promise<RecomputeSummary> {
+export async function recomputeForReadings(scope: ResultsScope, change: { channelIds: readonly string[]; from: Date; to: Date }, known?: KnownReadings): Promise<RecomputeSummary> {
+  const plan = await planRecompute(scope, change, known);
+  return storeRecompute(scope, plan.compute());
+}
+
+/**
+ * The reading part of a recompute: stack contexts, channel spans, the current readings of the
+ * changed channels (unless `known` brings them) and the stored hours of the other channels the
+ * limits read. With `known`, the plan may be made before those readings are written (under the
+ * stack's readings lock, so nothing else changes them): a channel's span is the union of what is
+ * stored and what `known` holds, which is the same before and after the write. That lets an
+ * import compute the hours while the database inserts the readings.
+ */
+export async function planRecompute(scope: ResultsScope, change: { channelIds: readonly string[]; from: Date; to: Date }, known?: KnownReadings): Promise<RecomputePlan> {
   const summary: RecomputeSummary = { channels: 0, limits: 0, hours: 0 };
-  if (change.channelIds.length === 0 || !(change.to.getTime() > change.from.getTime())) return summary;
   const range = wholeHours(change.from.getTime(), change.to.getTime());
+  const empty: RecomputePlan = { summary, compute: () => ({ summary, stacks: [], range }) };
+  if (change.channelIds.length === 0 || !(change.to.getTime() > change.from.getTime())) return empty;
   summary.hours = (range.to - range.from) / millisecondsInHour;
   await ensureHourlyPartitions(scope, range.from, range.to);
   const byStack = await stacksOfChannels(scope, change.channelIds);
+  const stackPlans: (() => RecomputeWrites['stacks'][number])[] = [];
   for (const [stackId, changed] of byStack) {
     const ctx = await loadStackContext(scope, stackId);
     if (!ctx) continue;
     const changedSet = new Set(changed);
     const changedIds = ctx.channels.filter((c) => changedSet.has(c.id)).map((c) => c.id);
     // All changed channels at once: one span query, one readings query, one delete + insert.
-    const computed = await computeChannelHoursOf(scope, ctx, changedIds, range);
-    await replaceChannelHoursOf(scope, changedIds, range.from, range.to, computed);
+    const readChannels = await readChannelHoursInputs(scope, ctx, changedIds, range, known);
     summary.channels += changedIds.length;
-    // The limits use the hours just computed (not read back); only unchanged inputs are loaded.
-    const now = Date.now();
-    const known = new Map<string, StoredChannelHour[]>();
-    for (const id of changedIds) known.set(id, (computed.get(id) ?? []).map((r) => ({ ...r, channelId: id, computedAt: now })));
+    // The limits use the hours computed here (not read back); only unchanged inputs are loaded.
     const plans = ctx.limits
       .map((limit) => ({ limit, plan: planLimit(ctx, limit) }))
       .filter(({ plan }) => !plan.ok || plan.channelIds.some((id) => changedSet.has(id)));
-    const missing = [...new Set(plans.flatMap(({ plan }) => (plan.ok ? plan.channelIds : [])))].filter((id) => !known.has(id));
-    if (missing.length > 0) {
-      for (const id of missing) known.set(id, []);
-      for (const h of await loadChannelHours(scope, missing, range.from, range.to)) known.get(h.channelId)!.push(h);
-    }
-    for (const { limit, plan } of plans) {
-      if (!plan.ok) await replaceLimitHours(scope, limit.id, range.from, range.to, []);
-      else {
-        const rows = deriveLimitHours(limit, plan, seriesByChannel(plan.channelIds.flatMap((id) => known.get(id) ?? [])), ctx.fuel);
-        await replaceLimitHours(scope, limit.id, range.from, range.to, rows);
-      }
-      summary.limits++;
-    }
+    const missing = [...new Set(plans.flatMap(({ plan }) => (plan.ok ? plan.channelIds : [])))].filter((id) => !changedIds.includes(id));
+    const stored = new Map<string, StoredChannelHour[]>(missing.map((id) => [id, []]));
+    if (missing.length > 0) for (const h of await loadChannelHours(scope, missing, range.from, range.to)) stored.get(h.channelId)!.push(h);
+    summary.limits += plans.length;
+    stackPlans.push(() => {
+      const channelRows = readChannels();
+      const now = Date.now();
+      const known = new Map(stored);
+      for (const id of changedIds) known.set(id, (channelRows.get(id) ?? []).map((r) => ({ ...r, channelId: id, computedAt: now })));
+      const limits = plans.map(({ limit, plan }) => ({
+        limitId: limit.id,
+        rows: plan.ok ? deriveLimitHours(limit, plan, seriesByChannel(plan.channelIds.flatMap((id) => known.get(id) ?? [])), ctx.fuel) : [],
+      }));
+      return { channelIds: changedIds, channelRows, limits };
+    });
   }
-  return summary;
+  return { summary, compute: () => ({ summary, stacks: stackPlans.map((computeStack) => computeStack()), range }) };
+}
+
+/** Writes the rows of a recompute: per stack, the channel hours, then each limit's hours. */
+export async function storeRecompute(scope: ResultsScope, writes: RecomputeWrites): Promise<RecomputeSummary> {
+  const { range } = writes;
+  for (const stack of writes.stacks) {
+    await replaceChannelHoursOf(scope, stack.channelIds, range.from, range.to, stack.channelRows);
+    for (const limit of stack.limits) await replaceLimitHours(scope, limit.limitId, range.from, range.to, limit.rows);
+  }
+  return writes.summary;
 }
 
 /** The whole hours of a channel that get a row: those of `range` between its first and last current reading. */
@@ -105,26 +153,56 @@ export async function computeChannelHoursOf(
   channelIds: readonly string[],
   range: HourRange,
 ): Promise<Map<string, ChannelHourRow[]>> {
-  const out = new Map<string, ChannelHourRow[]>();
+  return (await readChannelHoursInputs(scope, ctx, channelIds, range))();
+}
+
+/** The reads of `computeChannelHoursOf` (spans, and readings unless `known` has them); the result computes the rows. */
+async function readChannelHoursInputs(
+  scope: ResultsScope,
+  ctx: StackContext,
+  channelIds: readonly string[],
+  range: HourRange,
+  known?: KnownReadings,
+): Promise<() => Map<string, ChannelHourRow[]>> {
   const spans = await currentReadingSpans(scope, channelIds);
+  if (known) {
+    for (const id of channelIds) {
+      const t = known.get(id)?.t;
+      if (!t || t.length === 0) continue;
+      let first = Infinity;
+      let last = -Infinity;
+      for (let i = 0; i < t.length; i++) {
+        if (t[i]! < first) first = t[i]!;
+        if (t[i]! > last) last = t[i]!;
+      }
+      const stored = spans.get(id);
+      spans.set(id, stored ? { first: Math.min(first, stored.first), last: Math.max(last, stored.last) } : { first, last });
+    }
+  }
   const hourSpans = new Map<string, HourRange>();
   for (const id of channelIds) {
     const hours = storedHourSpan(range, spans.get(id));
     if (hours) hourSpans.set(id, hours);
-    else out.set(id, []);
   }
-  if (hourSpans.size === 0) return out;
   // Readings outside a channel's own span do not exist, so one load over the range serves all.
-  const readings = await loadCurrentReadingsOf(scope, [...hourSpans.keys()], range.from, range.to);
-  const rule = validityRuleFor(ctx.regime);
-  for (const [id, hours] of hourSpans) {
-    const channel = ctx.channels.find((c) => c.id === id)!;
-    const columns = readings.get(id) ?? { t: new Float64Array(0), value: new Float64Array(0), status: new Uint8Array(0) };
-    const rows = channelHours(columns, { fromMs: hours.from, toMs: hours.to, intervalMinutes: channel.intervalMinutes, rule });
-    for (const r of rows) r.coverage = clampCoverage(r.coverage);
-    out.set(id, rows);
-  }
-  return out;
+  const readings = known ?? (hourSpans.size > 0 ? await loadCurrentReadingsOf(scope, [...hourSpans.keys()], range.from, range.to) : new Map<string, ReadingColumns>());
+  return () => {
+    const out = new Map<string, ChannelHourRow[]>();
+    const rule = validityRuleFor(ctx.regime);
+    for (const id of channelIds) {
+      const hours = hourSpans.get(id);
+      if (!hours) {
+        out.set(id, []);
+        continue;
+      }
+      const channel = ctx.channels.find((c) => c.id === id)!;
+      const columns = readings.get(id) ?? { t: new Float64Array(0), value: new Float64Array(0), status: new Uint8Array(0) };
+      const rows = channelHours(columns, { fromMs: hours.from, toMs: hours.to, intervalMinutes: channel.intervalMinutes, rule });
+      for (const r of rows) r.coverage = clampCoverage(r.coverage);
+      out.set(id, rows);
+    }
+    return out;
+  };
 }
 
 /**
