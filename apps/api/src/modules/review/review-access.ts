@@ -7,7 +7,8 @@ import { TZDate } from '@date-fns/tz';
 import { nextLocalPeriodStart, startOfLocalPeriod } from '@flueledger/calc';
 import { NotFound, ValidationError } from '../../lib/errors';
 import type { TenantContext } from '../../routing/context';
-import { whereSiteVisible } from '../sites/site-access';
+import { type StackContext, loadStackContext } from '../results/stack-context';
+import { isSiteRestricted, whereSiteVisible } from '../sites/site-access';
 
 export type ReviewCtx = Pick<TenantContext, 'tenantId' | 'userId' | 'role' | 'db' | 'requestId'>;
 
@@ -22,18 +23,11 @@ export interface VisibleChannel {
   time_zone: string;
 }
 
-export async function findVisibleStack(ctx: ReviewCtx, stackId: string): Promise<{ id: string; site_id: string; time_zone: string }> {
-  const qb = ctx
-    .db('stacks')
-    .join('sites', function joinSite() {
-      this.on('sites.id', '=', 'stacks.site_id').andOn('sites.tenant_id', '=', 'stacks.tenant_id');
-    })
-    .where({ 'stacks.tenant_id': ctx.tenantId, 'stacks.id': stackId })
-    .first('stacks.id', 'stacks.site_id', 'sites.time_zone');
-  whereSiteVisible(qb, ctx, 'stacks.site_id');
-  const row = await qb;
-  if (!row) throw new NotFound('not_found', 'Stack not found.');
-  return row;
+/** The stack's context (results/stack-context.ts), checked visible to the caller in the same query; 404 otherwise. */
+export async function loadVisibleStackContext(ctx: ReviewCtx, stackId: string): Promise<StackContext> {
+  const sc = await loadStackContext({ tenantId: ctx.tenantId, db: ctx.db }, stackId, isSiteRestricted(ctx) ? { siteMemberUserId: ctx.userId } : {});
+  if (!sc) throw new NotFound('not_found', 'Stack not found.');
+  return sc;
 }
 
 export async function findVisibleChannel(ctx: ReviewCtx, channelId: string): Promise<VisibleChannel> {

@@ -6,6 +6,13 @@
  * side. Hours are UTC hours, given as their offset from an origin hour so a caller can place them
  * on a regular grid.
  *
+ * Writing the arrays as JSON is most of the statement's time (a few hundred nanoseconds an
+ * entry; reading and aggregating the rows is a fraction of it), so only what varies travels in
+ * full: the values. The hour offsets are left out when they are the plain run first, first + 1, …
+ * (the common case), and statuses, reasons and coverages go as their exceptions (the hours not
+ * valid, with a reason, not fully covered) with the offsets they belong to. `loadStoredHours`
+ * returns the full columns.
+ *
  * The markers decide whether stored limit hours are stale and make the review's entity tag.
  */
 import { HOUR_REASONS, HOUR_STATUSES, millisecondsInHour } from '@flueledger/calc';
@@ -83,51 +90,88 @@ const bindings = (values: unknown[]): Knex.RawBinding[] => values as Knex.RawBin
 
 const markerFields = `'count', count(*), 'oldest', date_part('epoch', min(computed_at)) * 1000,
   'newest', date_part('epoch', max(computed_at)) * 1000, 'last', date_part('epoch', max(hour_start)) * 1000`;
-// Arrays without ORDER BY: the aggregates of one group see its rows in one and the same order, so
-// the columns line up; `i` says where each entry belongs and the caller sorts if it must (rows
-// arrive in index order in practice, and one sort per aggregate would double the query's time).
-const hourOffset = `((date_part('epoch', hour_start)::bigint * 1000 - ?::bigint) / ${millisecondsInHour})::int`;
-const statusCode = `coalesce(array_position(?::text[], status) - 1, ${UNKNOWN_STATUS_CODE})`;
+// Per row, in the ordered subquery: the hour's offset, status code and reason code.
+const hourOffset = `((date_part('epoch', hour_start)::bigint * 1000 - ?::bigint) / ${millisecondsInHour})::int as off`;
+const statusCode = `coalesce(array_position(?::text[], status) - 1, ${UNKNOWN_STATUS_CODE}) as code`;
 // No reason, or a word the legend does not know, is code 0 ('none'), as the engine reads it.
-const reasonCode = 'coalesce(array_position(?::text[], reason) - 1, 0)';
+const reasonCode = 'coalesce(array_position(?::text[], reason) - 1, 0) as rcode';
+/**
+ * The offsets (null when they are exactly first, first + 1, … in the order of the other arrays:
+ * compared in the database, where it costs next to nothing), the values, and the exceptions of
+ * status (code 0 is `valid`) and reason (0 is `none`).
+ */
+const commonColumns = `'first', min(off),
+  'i', case when array_agg(off) = array(select generate_series(min(off), max(off))) then null else array_agg(off) end,
+  'value', array_agg(value),
+  'statusAt', array_agg(off) filter (where code <> 0), 'status', array_agg(code) filter (where code <> 0),
+  'reasonAt', array_agg(off) filter (where rcode <> 0), 'reason', array_agg(rcode) filter (where rcode <> 0)`;
 
-/** Markers and, when asked, columns of the channels' hours in the period and of each limit's hours in its range. */
+/** One channel's or limit's hours as the statement sends them (see the file header). */
+interface SentHours extends HoursMarker {
+  first?: number;
+  i?: number[] | null;
+  value?: (number | null)[];
+  statusAt?: number[] | null;
+  status?: number[] | null;
+  reasonAt?: number[] | null;
+  reason?: number[] | null;
+  coverageAt?: number[] | null;
+  coverage?: (number | null)[] | null;
+  o2PercentDry?: (number | null)[];
+  massKgPerHour?: (number | null)[];
+}
+
+/**
+ * Markers and, when asked, columns of the channels' hours in the period and of each limit's hours in its range.
+ *
+ * Each channel and each limit is read by its own range of the primary key (tenant, channel or
+ * limit, hour) through a lateral join: the work follows the stack's hours, not the organisation's
+ * (a filter on `channel_id = any(…)` would walk every channel of the organisation in the period),
+ * and the rows come in hour order.
+ */
 export async function loadStoredHours(scope: ResultsScope, q: StoredHoursQuery): Promise<StoredHoursRead> {
   const statuses = [...HOUR_STATUS_LEGEND];
   const reasons = [...HOUR_REASON_LEGEND];
+  const rowCodes = q.columns ? `, ${hourOffset}, ${statusCode}, ${reasonCode}` : '';
   const channelColumns = q.columns
-    ? `, 'i', array_agg(${hourOffset}), 'value', array_agg(value), 'status', array_agg(${statusCode}),
-         'reason', array_agg(${reasonCode}), 'coverage', array_agg(coverage)`
+    ? `, ${commonColumns},
+       'coverageAt', array_agg(off) filter (where coverage is distinct from 1), 'coverage', array_agg(coverage) filter (where coverage is distinct from 1)`
     : '';
   const limitColumns = q.columns
-    ? `, 'i', array_agg(${hourOffset}), 'value', array_agg(value), 'status', array_agg(${statusCode}), 'reason', array_agg(${reasonCode})` +
-      (q.derivation ? `, 'o2PercentDry', array_agg(o2_percent_dry), 'massKgPerHour', array_agg(mass_kg_per_hour)` : '')
+    ? `, ${commonColumns}` + (q.derivation ? `, 'o2PercentDry', array_agg(o2_percent_dry), 'massKgPerHour', array_agg(mass_kg_per_hour)` : '')
     : '';
-  const columnBindings = q.columns ? [q.fromMs, statuses, reasons] : [];
+  const codeBindings = q.columns ? [q.fromMs, statuses, reasons] : [];
   const { rows } = await scope.db.raw(
     `select
-       (select coalesce(json_object_agg(x.id, x.hours), '{}')::text from (
-          select channel_id as id, json_build_object(${markerFields}, 'countInPeriod', count(*)${channelColumns}) as hours
-            from hourly_values
-           where tenant_id = ? and channel_id = any(?::uuid[]) and hour_start >= ? and hour_start < ?
-           group by channel_id) x) as channels,
-       (select coalesce(json_object_agg(y.id, y.hours), '{}')::text from (
-          select v.limit_id as id,
-                 json_build_object(${markerFields}, 'countInPeriod', count(*) filter (where hour_start >= ?)${limitColumns}) as hours
-            from unnest(?::uuid[], ?::timestamptz[]) as q(limit_id, from_t)
-            join limit_hourly_values v on v.tenant_id = ? and v.limit_id = q.limit_id and v.hour_start >= q.from_t
-                                       and v.hour_start >= ? and v.hour_start < ?
-           group by v.limit_id) y) as limits`,
+       (select coalesce(json_object_agg(c.id, h.hours), '{}')::text
+          from unnest(?::uuid[]) as c(id)
+          cross join lateral (
+            select json_build_object(${markerFields}, 'countInPeriod', count(*)${channelColumns}) as hours
+              from (select hour_start, computed_at, value, coverage${rowCodes}
+                      from hourly_values
+                     where tenant_id = ? and channel_id = c.id and hour_start >= ? and hour_start < ?
+                     order by hour_start) v
+            having count(*) > 0) h) as channels,
+       (select coalesce(json_object_agg(r.limit_id, h.hours), '{}')::text
+          from unnest(?::uuid[], ?::timestamptz[]) as r(limit_id, from_t)
+          cross join lateral (
+            select json_build_object(${markerFields}, 'countInPeriod', count(*) filter (where hour_start >= ?)${limitColumns}) as hours
+              from (select hour_start, computed_at, value, o2_percent_dry, mass_kg_per_hour${rowCodes}
+                      from limit_hourly_values
+                     where tenant_id = ? and limit_id = r.limit_id and hour_start >= r.from_t
+                       and hour_start >= ? and hour_start < ?
+                     order by hour_start) v
+            having count(*) > 0) h) as limits`,
     bindings([
-      ...columnBindings,
-      scope.tenantId,
       [...q.channelIds],
+      ...codeBindings,
+      scope.tenantId,
       iso(q.fromMs),
       iso(q.toMs),
-      iso(q.fromMs),
-      ...columnBindings,
       q.limitRanges.map((r) => r.limitId),
       q.limitRanges.map((r) => iso(r.fromMs)),
+      iso(q.fromMs),
+      ...codeBindings,
       scope.tenantId,
       // The earliest hour any limit reads, stated as a constant so the planner skips older partitions.
       iso(Math.min(q.fromMs, ...q.limitRanges.map((r) => r.fromMs))),
@@ -137,15 +181,46 @@ export async function loadStoredHours(scope: ResultsScope, q: StoredHoursQuery):
   const row = rows[0] as { channels: string; limits: string };
   const read = (text: string) => {
     const out = new Map<string, StoredHours>();
-    for (const [id, hours] of Object.entries(JSON.parse(text) as Record<string, StoredHours>)) out.set(id, q.columns ? sortedByHour(hours) : hours);
+    for (const [id, hours] of Object.entries(JSON.parse(text) as Record<string, SentHours>)) out.set(id, q.columns ? sortedByHour(fullColumns(hours)) : markersOf(hours));
     return out;
   };
   return { channels: read(row.channels), limits: read(row.limits) };
 }
 
+const markersOf = ({ count, countInPeriod, oldest, newest, last }: SentHours): StoredHours => ({ count, countInPeriod, oldest, newest, last });
+
+/** The full columns of one channel's or limit's hours from what the statement sent. */
+function fullColumns(sent: SentHours): StoredHours {
+  const { first = 0, i: sentOffsets, statusAt, status, reasonAt, reason, coverageAt, coverage, ...rest } = sent;
+  const n = sent.value?.length ?? 0;
+  let i: number[];
+  let indexOf: (offset: number) => number;
+  if (sentOffsets) {
+    i = sentOffsets;
+    const position = new Map(i.map((offset, k) => [offset, k]));
+    indexOf = (offset) => position.get(offset)!;
+  } else {
+    i = new Array<number>(n);
+    for (let k = 0; k < n; k++) i[k] = first + k;
+    indexOf = (offset) => offset - first;
+  }
+  function column<T>(offsets: readonly number[] | null | undefined, values: readonly T[] | null | undefined, usual: T): T[] {
+    const out = new Array<T>(n).fill(usual);
+    if (offsets && values) for (let e = 0; e < offsets.length; e++) out[indexOf(offsets[e]!)] = values[e]!;
+    return out;
+  }
+  const full: StoredHours = { ...rest, i, status: column(statusAt, status, 0), reason: column(reasonAt, reason, 0) };
+  // Only channels send coverages; a channel with no exception sends `coverageAt` as null.
+  if ('coverageAt' in sent) full.coverage = column<number | null>(coverageAt, coverage, 1);
+  return full;
+}
+
 const columnNames = ['i', 'value', 'status', 'reason', 'coverage', 'o2PercentDry', 'massKgPerHour'] as const;
 
-/** The hours in ascending order: as they came when they did (one pass to check), else sorted. */
+/**
+ * The hours in ascending order: as they came (one pass to check; an aggregate over an ordered
+ * subquery keeps its order in practice, though SQL does not promise it), else sorted.
+ */
 function sortedByHour(hours: StoredHours): StoredHours {
   const i = hours.i ?? [];
   let ascending = true;

@@ -64,7 +64,10 @@ const Column = z.custom<(number | null)[]>((v) => Array.isArray(v) && v.every(is
 const CodeColumn = z.custom<(number | null)[]>((v) => Array.isArray(v) && v.every(isCodeOrNull), { error: 'Expected an array of integers or nulls' });
 
 const HourlyChannelColumns = z.object({
-  /** Mean of the hour's valid readings, in the channel's unit and basis. */
+  /**
+   * Mean of the hour's valid readings, in the channel's unit and basis, to 6 significant digits
+   * and at least 2 decimals (wire-precision.ts; the stored value and the verdicts keep full precision).
+   */
   value: Column,
   /** Index in `hourly.statusLegend`. */
   status: CodeColumn,
@@ -74,7 +77,7 @@ const HourlyChannelColumns = z.object({
   reason: CodeColumn,
 });
 const HourlyLimitColumns = z.object({
-  /** In the limit's unit, basis and reference O2. */
+  /** In the limit's unit, basis and reference O2; rounded as the channels' values. */
   value: Column,
   status: CodeColumn,
   reason: CodeColumn,

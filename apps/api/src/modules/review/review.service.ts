@@ -37,8 +37,8 @@ import { toDbWord } from '../results/channel-hours';
 import { planLimit } from '../results/limit-hours';
 import { ensureHourlyPartitions } from '../results/results.repo';
 import { limitHoursStale, recomputeLimitHours, wholeHours } from '../results/results.service';
-import { type StackContext, loadStackContext } from '../results/stack-context';
-import { type ReviewCtx, checkRange, findVisibleStack, localMonthOf, millisecondsInDay, parseInstant } from './review-access';
+import type { StackContext } from '../results/stack-context';
+import { type ReviewCtx, checkRange, loadVisibleStackContext, localMonthOf, millisecondsInDay, parseInstant } from './review-access';
 import {
   HOUR_REASON_LEGEND,
   HOUR_STATUS_LEGEND,
@@ -49,6 +49,7 @@ import {
   loadStoredHours,
 } from './review.repo';
 import type { ReviewDto, ReviewQuery } from './review.schemas';
+import { toWirePrecision } from './wire-precision';
 
 /** Longest period one review covers (a quarter): the hourly table of a longer one is a report's job. */
 export const MAX_REVIEW_DAYS = 93;
@@ -101,10 +102,12 @@ export const DAY_STATUS_LEGEND: readonly string[] = ['valid', 'invalid', 'not_op
 const dayStatusCode = new Map(DAY_STATUS_LEGEND.map((word, i) => [word, i]));
 
 /**
- * Part of every entity tag. The tag must change whenever the answer could, so it also changes when
- * this process starts: a new release may compute or shape the review differently.
+ * Part of every entity tag: the version of how the review is computed and shaped. Several API
+ * instances behind one balancer must give the same answer the same tag, so it is a constant, not
+ * anything of the process: change it whenever a release changes what the same stored data
+ * answer (a computation, a field, the precision sent).
  */
-const TAG_EPOCH = `review-columns-1:${Date.now().toString(36)}`;
+const TAG_EPOCH = 'review-columns-2';
 
 export type ReviewAnswer = { etag: string; notModified: true } | { etag: string; notModified: false; review: ReviewDto };
 
@@ -116,10 +119,9 @@ export type ReviewAnswer = { etag: string; notModified: true } | { etag: string;
  * (a recompute replaces rows with a later `computed_at`; a removal lowers the count).
  */
 export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQuery, options: { ifNoneMatch?: string } = {}): Promise<ReviewAnswer> {
-  const visible = await findVisibleStack(ctx, stackId);
+  const sc = await loadVisibleStackContext(ctx, stackId);
   const scope = { tenantId: ctx.tenantId, db: ctx.db };
-  const sc = (await loadStackContext(scope, stackId))!;
-  const tz = sc.timeZone || visible.time_zone;
+  const tz = sc.timeZone;
 
   // --- the period ---
   let from: number;
@@ -191,7 +193,7 @@ export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQu
     const span = gridSpan(i, count);
     if (!cols || !span) continue;
     hourly.channels[c.id] = {
-      value: onGrid(i, cols.value!, span, count),
+      value: onGrid(i, cols.value!, span, count, toWirePrecision),
       status: onGrid(i, cols.status!, span, count),
       coverage: onGrid(i, cols.coverage!, span, count, roundShare),
       reason: onGrid(i, cols.reason!, span, count),
@@ -203,11 +205,14 @@ export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQu
     const span = gridSpan(i, count);
     if (!cols || !span) continue;
     hourly.limits[l.id] = {
-      value: onGrid(i, cols.value!, span, count),
+      value: onGrid(i, cols.value!, span, count, toWirePrecision),
       status: onGrid(i, cols.status!, span, count),
       reason: onGrid(i, cols.reason!, span, count),
       ...(query.derivation
-        ? { o2PercentDry: onGrid(i, cols.o2PercentDry!, span, count), massKgPerHour: onGrid(i, cols.massKgPerHour!, span, count) }
+        ? {
+            o2PercentDry: onGrid(i, cols.o2PercentDry!, span, count, toWirePrecision),
+            massKgPerHour: onGrid(i, cols.massKgPerHour!, span, count, toWirePrecision),
+          }
         : {}),
     };
   }
@@ -320,11 +325,17 @@ function gridSpan(offsets: readonly number[], count: number): [number, number] |
 }
 
 /**
- * One stored column placed on the grid of `count` hours, null where no hour is stored. The
- * common case, every hour stored, is a plain slice.
+ * One stored column placed on the grid of `count` hours, null where no hour is stored, each entry
+ * passed through `map` when given. The common case, every hour stored, is the column itself (the
+ * engine's series are copies, so nothing else reads it afterwards) or one pass over it.
  */
-function onGrid<T>(offsets: readonly number[], column: readonly T[], [first, last]: [number, number], count: number, map?: (v: T) => T): (T | null)[] {
-  if (last - first === count) return map ? column.slice(first, last).map(map) : column.slice(first, last);
+function onGrid<T>(offsets: readonly number[], column: T[], [first, last]: [number, number], count: number, map?: (v: T) => T): (T | null)[] {
+  if (last - first === count) {
+    if (!map) return first === 0 && last === column.length ? column : column.slice(first, last);
+    const out = new Array<T>(count);
+    for (let k = 0; k < count; k++) out[k] = map(column[first + k]!);
+    return out;
+  }
   const out = new Array<T | null>(count).fill(null);
   for (let k = first; k < last; k++) out[offsets[k]!] = map ? map(column[k]!) : column[k]!;
   return out;
