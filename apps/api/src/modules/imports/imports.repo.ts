@@ -270,7 +270,9 @@ export async function stageParsed(ctx: ImportCtx, importId: string, parsed: Pars
   await ctx.db.raw('drop table if exists pg_temp.import_rows_in');
   await ctx.db.raw('create temp table import_rows_in (like import_rows) on commit drop');
   await copyLines(ctx.db, 'COPY import_rows_in (tenant_id, import_id, row_number, t, status, vals) FROM STDIN', rowLines());
-  await ctx.db.raw('insert into import_rows select * from import_rows_in');
+  const staged = await ctx.db.raw('insert into import_rows select * from import_rows_in');
+  // The preview joins staging with stored readings: give the planner staging's new size.
+  await ctx.db.raw('select refresh_statistics(?, ?)', ['import_rows', staged.rowCount ?? 0]);
   const headers = new Map<number, string>([[parsed.timestampColumn, parsed.timestampHeader]]);
   for (const column of parsed.columns) headers.set(column.index, column.header);
   function* problemLines(): Generator<string> {

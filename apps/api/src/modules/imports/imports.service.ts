@@ -9,7 +9,7 @@ import { audit } from '../../lib/audit';
 import { withScope } from '../../lib/db';
 import { AppError, Conflict, Unprocessable, ValidationError, type ErrorDetail } from '../../lib/errors';
 import { onReadingsChanged, prepareReadingsChange, type PreparedReadingsChange } from '../readings/readings.hooks';
-import { ensureMonthPartitions, lockStackReadings } from '../readings/readings.store';
+import { ensureMonthPartitions, lockStackReadings, refreshMonthStatistics } from '../readings/readings.store';
 import { wholeHours } from '../results/results.service';
 import {
   clearStaging,
@@ -669,6 +669,8 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
     } else {
       const incoming = incomingSql(ctx, current, mapped);
       await ctx.db.raw(`create temp table import_incoming on commit drop as ${incoming.sql}`, incoming.bindings);
+      // Temporary tables are never analysed by autovacuum; the statements below join on this one.
+      await ctx.db.raw('analyze import_incoming');
       const classes = await ctx.db.raw('select cls, count(*) as n from import_incoming group by cls');
       for (const c of classes.rows as { cls: keyof typeof counts; n: string }[]) counts[c.cls] = Number(c.n);
     }
@@ -755,8 +757,12 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
       nothingNew: inserted === 0,
     };
     if (change && inserted > 0) {
+      // Statistics before the hourly results read the month back (and before the next import
+      // compares against it): a first load into a month would otherwise be planned as empty.
+      await refreshMonthStatistics(ctx.db, ['readings'], change.from.getTime(), change.to.getTime() + 1, inserted);
       if (prepared) await prepared.store();
       else await onReadingsChanged(hookCtx, change);
+      await refreshMonthStatistics(ctx.db, ['hourly_values', 'limit_hourly_values'], change.from.getTime(), change.to.getTime() + 1, Math.ceil(inserted / 60));
     }
     await clearStaging(ctx, importId, false);
     await audit(ctx as Parameters<typeof audit>[0], {

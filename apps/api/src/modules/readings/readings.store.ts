@@ -40,6 +40,20 @@ export async function ensureMonthPartitions(db: Db, table: PartitionedTable, fro
 }
 
 /**
+ * Refreshes the planner's statistics of the month partitions of `tables` covering [fromMs, toMs)
+ * after `rowsWritten` rows went in, when that is a large share of what they held (see the
+ * `refresh_statistics` migration: without it, the first query joining a freshly loaded month can
+ * be planned as if the month were empty).
+ */
+export async function refreshMonthStatistics(db: Db, tables: readonly PartitionedTable[], fromMs: number, toMs: number, rowsWritten: number): Promise<void> {
+  for (const table of tables) {
+    for (const month of monthsCovering(fromMs, toMs)) {
+      await db.raw('select refresh_statistics(?, ?)', [`${table}_y${month.slice(0, 4)}m${month.slice(5, 7)}`, rowsWritten]);
+    }
+  }
+}
+
+/**
  * Serialises writers of one stack's readings for the rest of the transaction (two imports of
  * overlapping files, or an import and a correction, would otherwise both see a time as free).
  */
