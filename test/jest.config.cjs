@@ -8,6 +8,6 @@ module.exports = {
   transform: { '^.+\\.ts$': require('../jest.swc.cjs') },
   globalSetup: '<rootDir>/e2e/global-setup.ts',
   globalTeardown: '<rootDir>/e2e/global-teardown.ts',
+  // Honoured when this config runs alone; in `npm test` the root config's timeout applies.
   testTimeout: 90_000,
-  maxWorkers: 1,
 };
