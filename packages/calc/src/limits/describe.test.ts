@@ -24,6 +24,11 @@ describe('describeLimit', () => {
     expect(describeLimit(daily)).toBe('NOx ≤ 100 mg/Nm3, dry, 3 % O2, daily average, validated (−20 %), every day ≤ 110 % of ELV');
   });
 
+  it('starts the sentence with a capital for a pollutant named in words, and keeps formulae as written', () => {
+    expect(describeLimit({ ...daily, pollutant: 'dust', elv: 10 })).toMatch(/^Dust ≤ 10 mg\/Nm3, /);
+    expect(describeLimit({ ...daily, pollutant: 'NOx' })).toMatch(/^NOx ≤ /);
+  });
+
   it('writes the 95 % hourly rule as a share of periods', () => {
     // IED Annex V Part 4 point 1(d) [pub]: 95 % of the validated hourly averages ≤ 200 % of the ELV.
     expect(describeLimit({ ...daily, period: 'hour', criterion: { type: 'share_of_periods', factor: 2, share: 0.95 } })).toBe(

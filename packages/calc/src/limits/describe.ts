@@ -123,7 +123,9 @@ const ofElv = (factor: number): string => (factor === 1 ? 'ELV' : `${num(factor 
  * //=> "NOx ≤ 100 mg/Nm3, dry, 3 % O2, daily average, validated (−20 %), every day ≤ 110 % of ELV"
  */
 export function describeLimit(limit: LimitSentenceInput): string {
-  const parts = [`${limit.pollutant} ≤ ${num(limit.elv)} ${limit.unit}`];
+  // The sentence starts with the pollutant: 'dust' reads as 'Dust'; formulae (NOx, SO2) are unchanged.
+  const pollutant = limit.pollutant.charAt(0).toUpperCase() + limit.pollutant.slice(1);
+  const parts = [`${pollutant} ≤ ${num(limit.elv)} ${limit.unit}`];
   if ((LIMIT_UNITS_WITHOUT_REFERENCE_O2 as readonly string[]).includes(limit.unit)) {
     if (HEAT_INPUT_UNITS.includes(limit.unit)) parts.push('per heat input (F-factor)');
   } else {
