@@ -1,20 +1,23 @@
 /**
- * What the review reads of the stored hourly results, in one statement (one snapshot): per
- * channel and per limit a change marker of its stored hours (count, oldest and newest
- * `computed_at`, last hour) and, when asked, the hours themselves as one array per column
- * (`array_agg`), all in one JSON document that parses natively, with no object per hour on either
- * side. Hours are UTC hours, given as their offset from an origin hour so a caller can place them
- * on a regular grid.
+ * What the review reads of the stored hourly results: per channel and per limit a change marker of
+ * its stored hours (count, oldest and newest `computed_at`, last hour) and, when asked, the hours
+ * themselves as parallel columns, with no object per hour on either side.
  *
- * Writing the arrays as JSON is most of the statement's time (a few hundred nanoseconds an
- * entry; reading and aggregating the rows is a fraction of it), so only what varies travels in
- * full: the values. The hour offsets are left out when they are the plain run first, first + 1, …
- * (the common case), and statuses, reasons and coverages go as their exceptions (the hours not
- * valid, with a reason, not fully covered) with the offsets they belong to. `loadStoredHours`
- * returns the full columns.
+ * The hours are read as built documents, one per channel or limit and UTC month (table
+ * `hourly_columns`, migration 20261211000100, which explains why they are never stale): a month of
+ * a stack is a couple of dozen stored JSON texts fetched by primary key, not thousands of rows
+ * aggregated and encoded on every request. A document missing for the version the reader sees is
+ * built from the hourly rows in one statement (hours and version from one snapshot) and stored for
+ * the next reader.
+ *
+ * A document holds the month's values in full and the rest compactly: the hour offsets only when
+ * they are not the plain run first, first + 1, …; statuses, reasons and coverages as their
+ * exceptions (the hours not valid, with a reason, not fully covered) with the offsets they belong
+ * to; each hour's `computed_at` only when the hours were not all computed at once.
  *
  * The markers decide whether stored limit hours are stale and make the review's entity tag.
  */
+import { createHash } from 'node:crypto';
 import { HOUR_REASONS, HOUR_STATUSES, millisecondsInHour } from '@flueledger/calc';
 import type { Knex } from 'knex';
 import { toDbWord } from '../results/channel-hours';
@@ -85,30 +88,91 @@ export interface StoredHoursQuery {
   derivation?: boolean;
 }
 
-/** Bindings holding arrays (node-postgres sends them as SQL arrays). */
-const bindings = (values: unknown[]): Knex.RawBinding[] => values as Knex.RawBinding[];
-
-const markerFields = `'count', count(*), 'oldest', date_part('epoch', min(computed_at)) * 1000,
-  'newest', date_part('epoch', max(computed_at)) * 1000, 'last', date_part('epoch', max(hour_start)) * 1000`;
-// Per row, in the ordered subquery: the hour's offset, status code and reason code.
-const hourOffset = `((date_part('epoch', hour_start)::bigint * 1000 - ?::bigint) / ${millisecondsInHour})::int as off`;
-const statusCode = `coalesce(array_position(?::text[], status) - 1, ${UNKNOWN_STATUS_CODE}) as code`;
-// No reason, or a word the legend does not know, is code 0 ('none'), as the engine reads it.
-const reasonCode = 'coalesce(array_position(?::text[], reason) - 1, 0) as rcode';
 /**
- * The offsets (null when they are exactly first, first + 1, … in the order of the other arrays:
- * compared in the database, where it costs next to nothing), the values, and the exceptions of
- * status (code 0 is `valid`) and reason (0 is `none`).
+ * Names the documents' layout and legends. Part of a document's key: a release that changes
+ * either builds new documents instead of misreading old ones.
  */
-const commonColumns = `'first', min(off),
+const FORMAT = createHash('sha256')
+  .update(JSON.stringify(['hourly-columns-1', HOUR_STATUS_LEGEND, HOUR_REASON_LEGEND]))
+  .digest('base64url')
+  .slice(0, 16);
+const formatOf = (kind: SeriesKind, derivation: boolean) => (kind === 'limit' && derivation ? `${FORMAT}+derivation` : FORMAT);
+
+type SeriesKind = 'channel' | 'limit';
+
+// Per row, in the ordered subquery: the hour's offset from the month's start, status code and reason code.
+const rowCodes = `, ((date_part('epoch', hour_start) - date_part('epoch', k.month_start)) / 3600)::int as off,
+  coalesce(array_position(:statuses::text[], status) - 1, ${UNKNOWN_STATUS_CODE}) as code,
+  coalesce(array_position(:reasons::text[], reason) - 1, 0) as rcode`;
+// No reason, or a word the legend does not know, is code 0 ('none'), as the engine reads it.
+const commonFields = `'count', count(*), 'first', min(off), 'last', max(off),
+  'oldest', date_part('epoch', min(computed_at)) * 1000, 'newest', date_part('epoch', max(computed_at)) * 1000,
+  'computedAt', case when min(computed_at) = max(computed_at) then null else array_agg(date_part('epoch', computed_at) * 1000) end,
   'i', case when array_agg(off) = array(select generate_series(min(off), max(off))) then null else array_agg(off) end,
   'value', array_agg(value),
   'statusAt', array_agg(off) filter (where code <> 0), 'status', array_agg(code) filter (where code <> 0),
   'reasonAt', array_agg(off) filter (where rcode <> 0), 'reason', array_agg(rcode) filter (where rcode <> 0)`;
 
-/** One channel's or limit's hours as the statement sends them (see the file header). */
-interface SentHours extends HoursMarker {
+const BUILD_SQL = `
+  with k as (
+    select k.*, coalesce(v.version, 0) as version
+      from unnest(:kinds::text[], :ids::uuid[], :starts::timestamptz[], :ends::timestamptz[], :formats::text[]) as k(kind, series_id, month_start, month_end, format)
+      left join hourly_column_versions v
+        on v.tenant_id = :tenantId and v.kind = k.kind and v.series_id = k.series_id and v.month_start = k.month_start
+  ),
+  built as (
+    select k.kind, k.series_id, k.month_start, k.version, k.format,
+           coalesce(case when k.kind = 'channel' then c.doc else l.doc end, '{"count":0}') as body
+      from k
+      left join lateral (
+        select json_build_object(${commonFields},
+                 'coverageAt', array_agg(off) filter (where coverage is distinct from 1),
+                 'coverage', array_agg(coverage) filter (where coverage is distinct from 1))::text as doc
+          from (select hour_start, computed_at, value, coverage, status, reason ${rowCodes}
+                  from hourly_values
+                 where tenant_id = :tenantId and channel_id = k.series_id and hour_start >= k.month_start and hour_start < k.month_end
+                 order by hour_start) h
+        having count(*) > 0) c on k.kind = 'channel'
+      left join lateral (
+        select json_build_object(${commonFields},
+                 'o2PercentDry', case when k.format like '%+derivation' then array_agg(o2_percent_dry) end,
+                 'massKgPerHour', case when k.format like '%+derivation' then array_agg(mass_kg_per_hour) end)::text as doc
+          from (select hour_start, computed_at, value, o2_percent_dry, mass_kg_per_hour, status, reason ${rowCodes}
+                  from limit_hourly_values
+                 where tenant_id = :tenantId and limit_id = k.series_id and hour_start >= k.month_start and hour_start < k.month_end
+                 order by hour_start) h
+        having count(*) > 0) l on k.kind = 'limit'
+  ),
+  stored as (
+    insert into hourly_columns (tenant_id, kind, series_id, month_start, version, format, body)
+    select :tenantId, kind, series_id, month_start, version, format, body from built
+    on conflict do nothing
+  ),
+  -- Documents of older versions or layouts are never read again.
+  dropped as (
+    delete from hourly_columns d using built b
+     where d.tenant_id = :tenantId and d.kind = b.kind and d.series_id = b.series_id and d.month_start = b.month_start
+       and (d.version < b.version or split_part(d.format, '+', 1) <> split_part(b.format, '+', 1))
+  )
+  select kind, series_id::text as series_id, (date_part('epoch', month_start) * 1000)::float8 as month_ms, body from built`;
+
+const LOOKUP_SQL = `
+  select k.kind, k.series_id::text as series_id, (date_part('epoch', k.month_start) * 1000)::float8 as month_ms, d.body
+    from unnest(:kinds::text[], :ids::uuid[], :starts::timestamptz[], :formats::text[]) as k(kind, series_id, month_start, format)
+    left join hourly_column_versions v
+      on v.tenant_id = :tenantId and v.kind = k.kind and v.series_id = k.series_id and v.month_start = k.month_start
+    left join hourly_columns d
+      on d.tenant_id = :tenantId and d.kind = k.kind and d.series_id = k.series_id and d.month_start = k.month_start
+     and d.version = coalesce(v.version, 0) and d.format = k.format`;
+
+/** One channel's or limit's hours of one UTC month as a document holds them (see the file header). */
+interface MonthDoc {
+  count: number;
   first?: number;
+  last?: number;
+  oldest?: number;
+  newest?: number;
+  computedAt?: number[] | null;
   i?: number[] | null;
   value?: (number | null)[];
   statusAt?: number[] | null;
@@ -117,120 +181,158 @@ interface SentHours extends HoursMarker {
   reason?: number[] | null;
   coverageAt?: number[] | null;
   coverage?: (number | null)[] | null;
-  o2PercentDry?: (number | null)[];
-  massKgPerHour?: (number | null)[];
+  o2PercentDry?: (number | null)[] | null;
+  massKgPerHour?: (number | null)[] | null;
+}
+
+interface DocKey {
+  kind: SeriesKind;
+  seriesId: string;
+  monthMs: number;
+  format: string;
+}
+
+const keyOf = (kind: string, seriesId: string, monthMs: number) => `${kind}|${seriesId}|${monthMs}`;
+
+/** Start (UTC ms) of every UTC month that [fromMs, toMs) touches. */
+function utcMonthStarts(fromMs: number, toMs: number): number[] {
+  const out: number[] = [];
+  const d = new Date(fromMs);
+  let m = Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), 1);
+  while (m < toMs) {
+    out.push(m);
+    const n = new Date(m);
+    m = Date.UTC(n.getUTCFullYear(), n.getUTCMonth() + 1, 1);
+  }
+  return out;
+}
+
+const nextUtcMonth = (monthMs: number) => {
+  const d = new Date(monthMs);
+  return Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + 1, 1);
+};
+
+/** The documents of `keys`: stored ones as they are, missing ones built (and stored) in one statement. */
+async function loadDocs(scope: ResultsScope, keys: readonly DocKey[]): Promise<Map<string, string>> {
+  const docs = new Map<string, string>();
+  if (keys.length === 0) return docs;
+  const found = await scope.db.raw(LOOKUP_SQL, {
+    kinds: keys.map((k) => k.kind),
+    ids: keys.map((k) => k.seriesId),
+    starts: keys.map((k) => iso(k.monthMs)),
+    formats: keys.map((k) => k.format),
+    tenantId: scope.tenantId,
+  } as unknown as Knex.RawBinding);
+  const missing: DocKey[] = [];
+  for (const row of found.rows as { kind: string; series_id: string; month_ms: number; body: string | null }[]) {
+    if (row.body === null) missing.push(keys.find((k) => k.kind === row.kind && k.seriesId === row.series_id && k.monthMs === row.month_ms)!);
+    else docs.set(keyOf(row.kind, row.series_id, row.month_ms), row.body);
+  }
+  if (missing.length > 0) {
+    const built = await scope.db.raw(BUILD_SQL, {
+      kinds: missing.map((k) => k.kind),
+      ids: missing.map((k) => k.seriesId),
+      starts: missing.map((k) => iso(k.monthMs)),
+      ends: missing.map((k) => iso(nextUtcMonth(k.monthMs))),
+      formats: missing.map((k) => k.format),
+      statuses: [...HOUR_STATUS_LEGEND],
+      reasons: [...HOUR_REASON_LEGEND],
+      tenantId: scope.tenantId,
+    } as unknown as Knex.RawBinding);
+    for (const row of built.rows as { kind: string; series_id: string; month_ms: number; body: string }[]) docs.set(keyOf(row.kind, row.series_id, row.month_ms), row.body);
+  }
+  return docs;
 }
 
 /**
- * Markers and, when asked, columns of the channels' hours in the period and of each limit's hours in its range.
- *
- * Each channel and each limit is read by its own range of the primary key (tenant, channel or
- * limit, hour) through a lateral join: the work follows the stack's hours, not the organisation's
- * (a filter on `channel_id = any(…)` would walk every channel of the organisation in the period),
- * and the rows come in hour order.
+ * Markers and, when asked, columns of the channels' hours in the period and of each limit's hours
+ * in its range (its look-back included), from the month documents.
  */
 export async function loadStoredHours(scope: ResultsScope, q: StoredHoursQuery): Promise<StoredHoursRead> {
-  const statuses = [...HOUR_STATUS_LEGEND];
-  const reasons = [...HOUR_REASON_LEGEND];
-  const rowCodes = q.columns ? `, ${hourOffset}, ${statusCode}, ${reasonCode}` : '';
-  const channelColumns = q.columns
-    ? `, ${commonColumns},
-       'coverageAt', array_agg(off) filter (where coverage is distinct from 1), 'coverage', array_agg(coverage) filter (where coverage is distinct from 1)`
-    : '';
-  const limitColumns = q.columns
-    ? `, ${commonColumns}` + (q.derivation ? `, 'o2PercentDry', array_agg(o2_percent_dry), 'massKgPerHour', array_agg(mass_kg_per_hour)` : '')
-    : '';
-  const codeBindings = q.columns ? [q.fromMs, statuses, reasons] : [];
-  const { rows } = await scope.db.raw(
-    `select
-       (select coalesce(json_object_agg(c.id, h.hours), '{}')::text
-          from unnest(?::uuid[]) as c(id)
-          cross join lateral (
-            select json_build_object(${markerFields}, 'countInPeriod', count(*)${channelColumns}) as hours
-              from (select hour_start, computed_at, value, coverage${rowCodes}
-                      from hourly_values
-                     where tenant_id = ? and channel_id = c.id and hour_start >= ? and hour_start < ?
-                     order by hour_start) v
-            having count(*) > 0) h) as channels,
-       (select coalesce(json_object_agg(r.limit_id, h.hours), '{}')::text
-          from unnest(?::uuid[], ?::timestamptz[]) as r(limit_id, from_t)
-          cross join lateral (
-            select json_build_object(${markerFields}, 'countInPeriod', count(*) filter (where hour_start >= ?)${limitColumns}) as hours
-              from (select hour_start, computed_at, value, o2_percent_dry, mass_kg_per_hour${rowCodes}
-                      from limit_hourly_values
-                     where tenant_id = ? and limit_id = r.limit_id and hour_start >= r.from_t
-                       and hour_start >= ? and hour_start < ?
-                     order by hour_start) v
-            having count(*) > 0) h) as limits`,
-    bindings([
-      [...q.channelIds],
-      ...codeBindings,
-      scope.tenantId,
-      iso(q.fromMs),
-      iso(q.toMs),
-      q.limitRanges.map((r) => r.limitId),
-      q.limitRanges.map((r) => iso(r.fromMs)),
-      iso(q.fromMs),
-      ...codeBindings,
-      scope.tenantId,
-      // The earliest hour any limit reads, stated as a constant so the planner skips older partitions.
-      iso(Math.min(q.fromMs, ...q.limitRanges.map((r) => r.fromMs))),
-      iso(q.toMs),
-    ]),
-  );
-  const row = rows[0] as { channels: string; limits: string };
-  const read = (text: string) => {
-    const out = new Map<string, StoredHours>();
-    for (const [id, hours] of Object.entries(JSON.parse(text) as Record<string, SentHours>)) out.set(id, q.columns ? sortedByHour(fullColumns(hours)) : markersOf(hours));
-    return out;
-  };
-  return { channels: read(row.channels), limits: read(row.limits) };
+  const derivation = q.derivation === true;
+  const ranges: { kind: SeriesKind; seriesId: string; fromMs: number }[] = [
+    ...q.channelIds.map((id) => ({ kind: 'channel' as const, seriesId: id, fromMs: q.fromMs })),
+    ...q.limitRanges.map((r) => ({ kind: 'limit' as const, seriesId: r.limitId, fromMs: Math.min(r.fromMs, q.fromMs) })),
+  ];
+  const keys: DocKey[] = [];
+  for (const r of ranges) for (const monthMs of utcMonthStarts(r.fromMs, q.toMs)) keys.push({ kind: r.kind, seriesId: r.seriesId, monthMs, format: formatOf(r.kind, derivation) });
+  const docs = await loadDocs(scope, keys);
+
+  const out: StoredHoursRead = { channels: new Map(), limits: new Map() };
+  for (const r of ranges) {
+    const months = utcMonthStarts(r.fromMs, q.toMs).map((monthMs) => ({ monthMs, doc: JSON.parse(docs.get(keyOf(r.kind, r.seriesId, monthMs)) ?? '{"count":0}') as MonthDoc }));
+    const hours = hoursInRange(months, r.fromMs, q.toMs, q.fromMs, r.kind === 'limit' && derivation);
+    if (!hours) continue;
+    (r.kind === 'channel' ? out.channels : out.limits).set(r.seriesId, q.columns ? hours : markersOf(hours));
+  }
+  return out;
 }
 
-const markersOf = ({ count, countInPeriod, oldest, newest, last }: SentHours): StoredHours => ({ count, countInPeriod, oldest, newest, last });
-
-/** The full columns of one channel's or limit's hours from what the statement sent. */
-function fullColumns(sent: SentHours): StoredHours {
-  const { first = 0, i: sentOffsets, statusAt, status, reasonAt, reason, coverageAt, coverage, ...rest } = sent;
-  const n = sent.value?.length ?? 0;
-  let i: number[];
-  let indexOf: (offset: number) => number;
-  if (sentOffsets) {
-    i = sentOffsets;
-    const position = new Map(i.map((offset, k) => [offset, k]));
-    indexOf = (offset) => position.get(offset)!;
-  } else {
-    i = new Array<number>(n);
-    for (let k = 0; k < n; k++) i[k] = first + k;
-    indexOf = (offset) => offset - first;
-  }
-  function column<T>(offsets: readonly number[] | null | undefined, values: readonly T[] | null | undefined, usual: T): T[] {
-    const out = new Array<T>(n).fill(usual);
-    if (offsets && values) for (let e = 0; e < offsets.length; e++) out[indexOf(offsets[e]!)] = values[e]!;
-    return out;
-  }
-  const full: StoredHours = { ...rest, i, status: column(statusAt, status, 0), reason: column(reasonAt, reason, 0) };
-  // Only channels send coverages; a channel with no exception sends `coverageAt` as null.
-  if ('coverageAt' in sent) full.coverage = column<number | null>(coverageAt, coverage, 1);
-  return full;
-}
-
-const columnNames = ['i', 'value', 'status', 'reason', 'coverage', 'o2PercentDry', 'massKgPerHour'] as const;
+const H = millisecondsInHour;
 
 /**
- * The hours in ascending order: as they came (one pass to check; an aggregate over an ordered
- * subquery keeps its order in practice, though SQL does not promise it), else sorted.
+ * One channel's or limit's hours in [fromMs, toMs) from its month documents (in month order), as
+ * columns with offsets counted from `originMs`; null when no hour lies in the range.
  */
-function sortedByHour(hours: StoredHours): StoredHours {
-  const i = hours.i ?? [];
-  let ascending = true;
-  for (let k = 1; k < i.length && ascending; k++) ascending = i[k - 1]! < i[k]!;
-  if (ascending) return hours;
-  const order = i.map((_, k) => k).sort((a, b) => i[a]! - i[b]!);
-  const sorted: StoredHours = { ...hours };
-  for (const name of columnNames) {
-    const column = hours[name] as unknown[] | undefined;
-    if (column) (sorted as unknown as Record<string, unknown>)[name] = order.map((k) => column[k]);
+function hoursInRange(months: readonly { monthMs: number; doc: MonthDoc }[], fromMs: number, toMs: number, originMs: number, derivation: boolean): StoredHours | null {
+  const cols = { i: [] as number[], value: [] as (number | null)[], status: [] as number[], reason: [] as number[], coverage: [] as (number | null)[], o2: [] as (number | null)[], mass: [] as (number | null)[] };
+  let hasCoverage = false;
+  let count = 0;
+  let countInPeriod = 0;
+  let oldest = Infinity;
+  let newest = -Infinity;
+  let last = -Infinity;
+  for (const { monthMs, doc } of months) {
+    const n = doc.value?.length ?? 0;
+    if (doc.count === 0 || n === 0) continue;
+    const first = doc.first ?? 0;
+    const offsets = doc.i ?? null;
+    const offsetAt = (k: number) => (offsets ? offsets[k]! : first + k);
+    const indexOf = offsets ? new Map(offsets.map((o, k) => [o, k])) : null;
+    const at = (o: number) => (indexOf ? indexOf.get(o)! : o - first);
+    const status = exceptions(n, doc.statusAt, doc.status, 0, at);
+    const reason = exceptions(n, doc.reasonAt, doc.reason, 0, at);
+    const coverage = 'coverageAt' in doc ? exceptions<number | null>(n, doc.coverageAt, doc.coverage, 1, at) : null;
+    if (coverage) hasCoverage = true;
+    // Offsets from the month's start to offsets from the origin (whole hours: both are hour starts).
+    const shift = Math.round((monthMs - originMs) / H);
+    const lo = Math.ceil((fromMs - monthMs) / H);
+    const hi = Math.ceil((toMs - monthMs) / H);
+    for (let k = 0; k < n; k++) {
+      const o = offsetAt(k);
+      if (o < lo || o >= hi) continue;
+      count++;
+      if (o + shift >= 0) countInPeriod++;
+      const computedAt = doc.computedAt ? doc.computedAt[k]! : null;
+      oldest = Math.min(oldest, computedAt ?? doc.oldest!);
+      newest = Math.max(newest, computedAt ?? doc.newest!);
+      last = Math.max(last, monthMs + o * H);
+      cols.i.push(o + shift);
+      cols.value.push(doc.value![k] ?? null);
+      cols.status.push(status[k]!);
+      cols.reason.push(reason[k]!);
+      if (coverage) cols.coverage.push(coverage[k]!);
+      if (derivation) {
+        cols.o2.push(doc.o2PercentDry?.[k] ?? null);
+        cols.mass.push(doc.massKgPerHour?.[k] ?? null);
+      }
+    }
   }
-  return sorted;
+  if (count === 0) return null;
+  const hours: StoredHours = { count, countInPeriod, oldest, newest, last, i: cols.i, value: cols.value, status: cols.status, reason: cols.reason };
+  if (hasCoverage) hours.coverage = cols.coverage;
+  if (derivation) {
+    hours.o2PercentDry = cols.o2;
+    hours.massKgPerHour = cols.mass;
+  }
+  return hours;
 }
+
+/** A full column of `n` entries: `usual` except at the listed offsets. */
+function exceptions<T>(n: number, offsets: readonly number[] | null | undefined, values: readonly T[] | null | undefined, usual: T, indexOf: (offset: number) => number): T[] {
+  const out = new Array<T>(n).fill(usual);
+  if (offsets && values) for (let e = 0; e < offsets.length; e++) out[indexOf(offsets[e]!)] = values[e]!;
+  return out;
+}
+
+const markersOf = ({ count, countInPeriod, oldest, newest, last }: StoredHours): StoredHours => ({ count, countInPeriod, oldest, newest, last });
