@@ -17,10 +17,39 @@ export const sessionCookieName = 'fl.sid';
 
 export type SessionStore = session.Store & { close(): Promise<void> | void };
 
+/**
+ * How far the stored expiry of a session may lag its rolling cookie's before a request moves it.
+ * Sessions roll (each request extends them), and express-session holds every response until the
+ * store has "touched" the session: an UPDATE and a durable commit per request. With this slack the
+ * stored expiry moves at most once in five minutes per session; the UPDATE of the other requests
+ * matches no row, writes nothing and has nothing to flush. An idle session therefore ends up to
+ * five minutes before its cookie would (of SESSION_MAX_AGE_HOURS, 12 h by default).
+ */
+export const SESSION_TOUCH_SLACK_SECONDS = 300;
+
+type StoreCallback = (err?: unknown) => void;
+interface PgStoreInternals {
+  quotedTable(): string;
+  query(sql: string, params: unknown[], fn: StoreCallback): void;
+}
+
 /** Sessions live in Postgres (table `session`, created by a migration), so any instance serves any request. */
 export function createSessionStore(env: Pick<Env, 'DATABASE_URL' | 'SESSION_PRUNE_INTERVAL_SECONDS'>): SessionStore {
   const PgStore = connectPgSimple(session);
-  return new PgStore({
+  class SlackTouchStore extends PgStore {
+    override touch(sid: string, sess: session.SessionData, fn?: StoreCallback): void {
+      const expires = sess?.cookie?.expires ? new Date(sess.cookie.expires).getTime() : Number.NaN;
+      // No expiry to move to (a session without a cookie expiry): the store's own rule.
+      if (!Number.isFinite(expires)) return super.touch(sid, sess, fn);
+      const self = this as unknown as PgStoreInternals;
+      self.query(
+        `update ${self.quotedTable()} set expire = to_timestamp($1) where sid = $2 and expire < to_timestamp($1) - make_interval(secs => $3)`,
+        [Math.ceil(expires / 1000), sid, SESSION_TOUCH_SLACK_SECONDS],
+        (err) => fn?.(err),
+      );
+    }
+  }
+  return new SlackTouchStore({
     conString: env.DATABASE_URL,
     tableName: tables.session,
     createTableIfMissing: false,

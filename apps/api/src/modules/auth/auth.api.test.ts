@@ -289,3 +289,25 @@ describe('POST /api/auth/logout', () => {
     expect(await owner('session').where({ sid })).toHaveLength(0);
   });
 });
+
+describe('rolling session expiry', () => {
+  const storedExpiry = async (sid: string) => (await owner('session').where({ sid }).first('expire')).expire.getTime() as number;
+
+  it('moves the stored expiry only when it lags the cookie by more than the slack', async () => {
+    const client = await ApiClient.signedIn(t.app, north.users.officer.email, north.users.officer.password);
+    // The cookie holds the signed id: s:<id>.<signature>.
+    const sid = client.sessionId!.replace(/^s:/, '').split('.')[0]!;
+    const first = await storedExpiry(sid);
+    // One minute behind the cookie (within the slack): a request leaves it where it is.
+    await owner('session').where({ sid }).update({ expire: new Date(first - 60_000) });
+    expect((await client.get('/api/me')).status).toBe(200);
+    expect(await storedExpiry(sid)).toBe(first - 60_000);
+
+    // Ten minutes older than it was: the next request moves it to a full session's length again.
+    await owner('session').where({ sid }).update({ expire: new Date(first - 10 * 60_000) });
+    const before = Date.now();
+    expect((await client.get('/api/me')).status).toBe(200);
+    const moved = await storedExpiry(sid);
+    expect(moved).toBeGreaterThanOrEqual(before + t.env.SESSION_MAX_AGE_HOURS * 3_600_000 - 1000);
+  });
+});
