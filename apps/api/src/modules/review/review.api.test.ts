@@ -72,8 +72,14 @@ const reviewPath = (query = '?from=2026-11-02&to=2026-11-05') => `/api/stacks/${
 const review = (client: ApiClient, query?: string) => client.get(reviewPath(query));
 
 // The hourly series travels as columns on a regular UTC grid (hour i starts at fromMs + i·stepMs),
-// statuses and reasons as indexes into legends. `hourOf` reads one hour back out of the columns.
-type Columns = { value: (number | null)[]; status: (number | null)[]; reason: (number | null)[]; coverage?: (number | null)[] };
+// statuses and reasons as indexes into legends, and statuses, reasons and coverages as their
+// exceptions (entry i is values[k] where at[k] = i, else usual). `hourOf` reads one hour back out.
+type Sparse = { usual: number | null; at: number[]; values: (number | null)[] };
+type Columns = { value: (number | null)[]; status: Sparse; reason: Sparse; coverage?: Sparse };
+const entry = (c: Sparse, i: number) => {
+  const k = c.at.indexOf(i);
+  return k < 0 ? c.usual : c.values[k]!;
+};
 type HourlyColumns = {
   fromMs: number;
   stepMs: number;
@@ -91,13 +97,14 @@ function hourOf(body: { hourly: HourlyColumns }, ms: number): { hourStart: strin
   const at = (columns: Record<string, Columns>) => {
     const out: Record<string, HourEntry> = {};
     for (const [id, c] of Object.entries(columns)) {
-      const status = c.status[i];
-      if (status === null || status === undefined) continue; // no stored hour
+      const status = entry(c.status, i);
+      if (status === null) continue; // no stored hour
+      const reason = h.reasonLegend[entry(c.reason, i)!]!;
       out[id] = {
         value: c.value[i]!,
         status: h.statusLegend[status]!,
-        reason: h.reasonLegend[c.reason[i]!] === 'none' ? null : h.reasonLegend[c.reason[i]!]!,
-        ...(c.coverage ? { coverage: c.coverage[i]! } : {}),
+        reason: reason === 'none' ? null : reason,
+        ...(c.coverage ? { coverage: entry(c.coverage, i) } : {}),
       };
     }
     return out;
@@ -180,10 +187,14 @@ describe('GET /api/stacks/:stackId/review', () => {
     expect(res.body.from).toBe('2026-11-01T23:00:00.000Z');
     expect(res.body.to).toBe('2026-11-04T23:00:00.000Z');
     expect(res.body.hourly).toMatchObject({ fromMs: FROM, stepMs: H, count: 72 });
-    // Every column holds one entry per hour of the grid.
+    // Every full column holds one entry per hour of the grid; every sparse one names hours of it, ascending.
     for (const group of [res.body.hourly.channels, res.body.hourly.limits]) {
-      for (const columns of Object.values(group) as Record<string, unknown[]>[]) {
-        for (const column of Object.values(columns)) expect(column).toHaveLength(72);
+      for (const columns of Object.values(group) as Columns[]) {
+        expect(columns.value).toHaveLength(72);
+        for (const sparse of [columns.status, columns.reason, ...(columns.coverage ? [columns.coverage] : [])]) {
+          expect(sparse.at).toHaveLength(sparse.values.length);
+          expect(sparse.at.every((i, k) => i >= 0 && i < 72 && (k === 0 || i > sparse.at[k - 1]!))).toBe(true);
+        }
       }
     }
     expect(Object.keys(res.body.hourly.channels).sort()).toEqual([tree.channelId, o2Id, co2Id].sort());
@@ -271,6 +282,21 @@ describe('GET /api/stacks/:stackId/review', () => {
     expect(stale.body.hourly.count).toBe(72);
     // Another period is another answer.
     expect((await review(officer, '?from=2026-11-02&to=2026-11-04')).headers['etag']).not.toBe(etag);
+  });
+
+  it('sends hours with nothing stored as null statuses (a period reaching past the data)', async () => {
+    const res = await review(officer, '?from=2026-11-01&to=2026-11-03');
+    expect(res.status).toBe(200);
+    const h = res.body.hourly as HourlyColumns;
+    const c = h.channels[tree.channelId]!;
+    const firstStored = (FROM - h.fromMs) / h.stepMs;
+    expect(firstStored).toBeGreaterThan(0);
+    for (let i = 0; i < h.count; i++) {
+      expect(entry(c.status, i) === null).toBe(i < firstStored);
+      expect(c.value[i] === null).toBe(i < firstStored);
+    }
+    expect(hourOf(res.body, FROM - H).channels[tree.channelId]).toBeUndefined();
+    expect(hourOf(res.body, FROM).channels[tree.channelId]).toMatchObject({ status: 'valid', coverage: 1 });
   });
 
   it('adds how each limit hour was derived (O2, mass rate) only when asked', async () => {

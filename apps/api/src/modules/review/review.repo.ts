@@ -107,11 +107,11 @@ const rowCodes = `, ((date_part('epoch', hour_start) - date_part('epoch', k.mont
 // No reason, or a word the legend does not know, is code 0 ('none'), as the engine reads it.
 const commonFields = `'count', count(*), 'first', min(off), 'last', max(off),
   'oldest', date_part('epoch', min(computed_at)) * 1000, 'newest', date_part('epoch', max(computed_at)) * 1000,
-  'computedAt', case when min(computed_at) = max(computed_at) then null else array_agg(date_part('epoch', computed_at) * 1000) end,
-  'i', case when array_agg(off) = array(select generate_series(min(off), max(off))) then null else array_agg(off) end,
-  'value', array_agg(value),
-  'statusAt', array_agg(off) filter (where code <> 0), 'status', array_agg(code) filter (where code <> 0),
-  'reasonAt', array_agg(off) filter (where rcode <> 0), 'reason', array_agg(rcode) filter (where rcode <> 0)`;
+  'computedAt', case when min(computed_at) = max(computed_at) then null else array_agg(date_part('epoch', computed_at) * 1000 order by off) end,
+  'i', case when array_agg(off order by off) = array(select generate_series(min(off), max(off))) then null else array_agg(off order by off) end,
+  'value', array_agg(value order by off),
+  'statusAt', array_agg(off order by off) filter (where code <> 0), 'status', array_agg(code order by off) filter (where code <> 0),
+  'reasonAt', array_agg(off order by off) filter (where rcode <> 0), 'reason', array_agg(rcode order by off) filter (where rcode <> 0)`;
 
 const BUILD_SQL = `
   with k as (
@@ -126,21 +126,19 @@ const BUILD_SQL = `
       from k
       left join lateral (
         select json_build_object(${commonFields},
-                 'coverageAt', array_agg(off) filter (where coverage is distinct from 1),
-                 'coverage', array_agg(coverage) filter (where coverage is distinct from 1))::text as doc
+                 'coverageAt', array_agg(off order by off) filter (where coverage is distinct from 1),
+                 'coverage', array_agg(coverage order by off) filter (where coverage is distinct from 1))::text as doc
           from (select hour_start, computed_at, value, coverage, status, reason ${rowCodes}
                   from hourly_values
-                 where tenant_id = :tenantId and channel_id = k.series_id and hour_start >= k.month_start and hour_start < k.month_end
-                 order by hour_start) h
+                 where tenant_id = :tenantId and channel_id = k.series_id and hour_start >= k.month_start and hour_start < k.month_end) h
         having count(*) > 0) c on k.kind = 'channel'
       left join lateral (
         select json_build_object(${commonFields},
-                 'o2PercentDry', case when k.format like '%+derivation' then array_agg(o2_percent_dry) end,
-                 'massKgPerHour', case when k.format like '%+derivation' then array_agg(mass_kg_per_hour) end)::text as doc
+                 'o2PercentDry', case when k.format like '%+derivation' then array_agg(o2_percent_dry order by off) end,
+                 'massKgPerHour', case when k.format like '%+derivation' then array_agg(mass_kg_per_hour order by off) end)::text as doc
           from (select hour_start, computed_at, value, o2_percent_dry, mass_kg_per_hour, status, reason ${rowCodes}
                   from limit_hourly_values
-                 where tenant_id = :tenantId and limit_id = k.series_id and hour_start >= k.month_start and hour_start < k.month_end
-                 order by hour_start) h
+                 where tenant_id = :tenantId and limit_id = k.series_id and hour_start >= k.month_start and hour_start < k.month_end) h
         having count(*) > 0) l on k.kind = 'limit'
   ),
   stored as (

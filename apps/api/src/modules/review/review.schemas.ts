@@ -63,24 +63,37 @@ const isCodeOrNull = (x: unknown) => x === null || Number.isInteger(x);
 const Column = z.custom<(number | null)[]>((v) => Array.isArray(v) && v.every(isNumberOrNull), { error: 'Expected an array of numbers or nulls' });
 const CodeColumn = z.custom<(number | null)[]>((v) => Array.isArray(v) && v.every(isCodeOrNull), { error: 'Expected an array of integers or nulls' });
 
+/**
+ * A column sent as its exceptions: entry i is `values[k]` where `at[k] === i`, and `usual`
+ * everywhere else (`at` ascending). Statuses, reasons and coverages are the same for almost every
+ * hour (valid, no reason, fully covered); sent in full they were a third of a month's answer.
+ */
+const SparseColumn = z
+  .object({
+    usual: z.number().nullable(),
+    at: z.custom<number[]>((v) => Array.isArray(v) && v.every((x) => Number.isInteger(x) && x >= 0), { error: 'Expected an array of indexes' }),
+    values: Column,
+  })
+  .refine((c) => c.at.length === c.values.length, { error: '"at" and "values" must be as long as each other' });
+
 const HourlyChannelColumns = z.object({
   /**
-   * Mean of the hour's valid readings, in the channel's unit and basis, to 6 significant digits
-   * and at least 2 decimals (wire-precision.ts; the stored value and the verdicts keep full precision).
+   * Mean of the hour's valid readings, in the channel's unit and basis, to 10 significant digits
+   * (wire-precision.ts; the stored value and the verdicts keep full precision).
    */
   value: Column,
-  /** Index in `hourly.statusLegend`. */
-  status: CodeColumn,
-  /** Share (0–1) of the hour covered by valid readings, rounded to 0.001. */
-  coverage: Column,
+  /** Index in `hourly.statusLegend`; null where no hour is stored (usually `valid`, code 0). */
+  status: SparseColumn,
+  /** Share (0–1) of the hour covered by valid readings, rounded to 0.001 (usually 1). */
+  coverage: SparseColumn,
   /** Index in `hourly.reasonLegend` of why the hour is not valid; 0 (`none`) when there is no reason. */
-  reason: CodeColumn,
+  reason: SparseColumn,
 });
 const HourlyLimitColumns = z.object({
   /** In the limit's unit, basis and reference O2; rounded as the channels' values. */
   value: Column,
-  status: CodeColumn,
-  reason: CodeColumn,
+  status: SparseColumn,
+  reason: SparseColumn,
   /** With `derivation=true` only: the O2 the hour was corrected with, and its mass rate. */
   o2PercentDry: Column.optional(),
   massKgPerHour: Column.optional(),

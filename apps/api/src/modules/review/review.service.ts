@@ -107,7 +107,7 @@ const dayStatusCode = new Map(DAY_STATUS_LEGEND.map((word, i) => [word, i]));
  * anything of the process: change it whenever a release changes what the same stored data
  * answer (a computation, a field, the precision sent).
  */
-const TAG_EPOCH = 'review-columns-2';
+const TAG_EPOCH = 'review-columns-3';
 
 export type ReviewAnswer = { etag: string; notModified: true } | { etag: string; notModified: false; review: ReviewDto };
 
@@ -194,9 +194,9 @@ export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQu
     if (!cols || !span) continue;
     hourly.channels[c.id] = {
       value: onGrid(i, cols.value!, span, count, toWirePrecision),
-      status: onGrid(i, cols.status!, span, count),
-      coverage: onGrid(i, cols.coverage!, span, count, roundShare),
-      reason: onGrid(i, cols.reason!, span, count),
+      status: sparseOnGrid(i, cols.status!, span, count, 0),
+      coverage: sparseOnGrid(i, cols.coverage!, span, count, 1, roundShare),
+      reason: sparseOnGrid(i, cols.reason!, span, count, 0),
     };
   }
   for (const l of limits) {
@@ -206,8 +206,8 @@ export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQu
     if (!cols || !span) continue;
     hourly.limits[l.id] = {
       value: onGrid(i, cols.value!, span, count, toWirePrecision),
-      status: onGrid(i, cols.status!, span, count),
-      reason: onGrid(i, cols.reason!, span, count),
+      status: sparseOnGrid(i, cols.status!, span, count, 0),
+      reason: sparseOnGrid(i, cols.reason!, span, count, 0),
       ...(query.derivation
         ? {
             o2PercentDry: onGrid(i, cols.o2PercentDry!, span, count, toWirePrecision),
@@ -339,6 +339,41 @@ function onGrid<T>(offsets: readonly number[], column: T[], [first, last]: [numb
   const out = new Array<T | null>(count).fill(null);
   for (let k = first; k < last; k++) out[offsets[k]!] = map ? map(column[k]!) : column[k]!;
   return out;
+}
+
+/**
+ * One stored column placed on the grid of `count` hours as its exceptions (review.schemas.ts
+ * `SparseColumn`): the hours whose entry is not `usual`, null where no hour is stored.
+ */
+function sparseOnGrid(
+  offsets: readonly number[],
+  column: readonly (number | null)[],
+  [first, last]: [number, number],
+  count: number,
+  usual: number,
+  map?: (v: number | null) => number | null,
+): { usual: number; at: number[]; values: (number | null)[] } {
+  const at: number[] = [];
+  const values: (number | null)[] = [];
+  let next = 0; // the next grid hour not yet accounted for
+  for (let k = first; k < last; k++) {
+    const hour = offsets[k]!;
+    for (; next < hour; next++) {
+      at.push(next);
+      values.push(null);
+    }
+    const v = map ? map(column[k] ?? null) : (column[k] ?? null);
+    if (v !== usual) {
+      at.push(hour);
+      values.push(v);
+    }
+    next = hour + 1;
+  }
+  for (; next < count; next++) {
+    at.push(next);
+    values.push(null);
+  }
+  return { usual, at, values };
 }
 
 /** Shares are shown to 0.1 %: more digits only cost bytes. */

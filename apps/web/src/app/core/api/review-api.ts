@@ -1,6 +1,6 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { Observable } from 'rxjs';
+import { Observable, map } from 'rxjs';
 
 import type { Limit } from './permits-api';
 
@@ -50,6 +50,44 @@ export interface HourlyLimitColumns {
   /** Only when asked for with `derivation`: the O2 each hour was corrected with, and its mass rate. */
   o2PercentDry?: Column;
   massKgPerHour?: Column;
+}
+
+/**
+ * A column as the API sends statuses, reasons and coverages: entry i is `values[k]` where
+ * `at[k] === i`, else `usual` (almost every hour is valid, has no reason and is fully covered).
+ * `ReviewApi.review` expands them into full columns.
+ */
+export interface SparseColumn {
+  usual: number | null;
+  at: number[];
+  values: (number | null)[];
+}
+
+/** The full column of `count` entries a sparse one stands for. */
+export function expandColumn(sparse: SparseColumn, count: number): Column {
+  const column: Column = new Array<number | null>(count).fill(sparse.usual);
+  for (let k = 0; k < sparse.at.length; k++) column[sparse.at[k]!] = sparse.values[k]!;
+  return column;
+}
+
+type Wire<T> = { [K in keyof T]: K extends 'status' | 'reason' | 'coverage' ? SparseColumn : T[K] };
+/** The review as it travels (see `SparseColumn`). */
+export type ReviewWire = Omit<Review, 'hourly'> & {
+  hourly: Omit<ReviewHourly, 'channels' | 'limits'> & { channels: Record<string, Wire<HourlyChannelColumns>>; limits: Record<string, Wire<HourlyLimitColumns>> };
+};
+
+/** The review with every hourly column in full, as the screens read it. */
+export function expandReview(wire: ReviewWire): Review {
+  const { count } = wire.hourly;
+  const channels: Record<string, HourlyChannelColumns> = {};
+  for (const [id, c] of Object.entries(wire.hourly.channels)) {
+    channels[id] = { ...c, status: expandColumn(c.status, count), reason: expandColumn(c.reason, count), coverage: expandColumn(c.coverage, count) };
+  }
+  const limits: Record<string, HourlyLimitColumns> = {};
+  for (const [id, c] of Object.entries(wire.hourly.limits)) {
+    limits[id] = { ...c, status: expandColumn(c.status, count), reason: expandColumn(c.reason, count) };
+  }
+  return { ...wire, hourly: { ...wire.hourly, channels, limits } };
 }
 
 /**
@@ -222,7 +260,7 @@ export class ReviewApi {
    */
   review(stackId: string, range?: { from: string; to: string }): Observable<Review> {
     const params = range ? new HttpParams().set('from', range.from).set('to', range.to) : undefined;
-    return this.http.get<Review>(`/api/stacks/${stackId}/review`, { params });
+    return this.http.get<ReviewWire>(`/api/stacks/${stackId}/review`, { params }).pipe(map(expandReview));
   }
 
   /** Raw readings of a channel, oldest first, with the imports that brought them. */

@@ -36,6 +36,7 @@ function usLimit(): ReviewLimit {
       averageSoFar: 0.1712,
       maxAverageToStayCompliant: 0.1534,
       exceedanceCertain: false,
+      periodsAboveAllowedRemaining: null,
       note: null,
     },
   };

@@ -16,11 +16,11 @@ import { provideRouter } from '@angular/router';
 import { provideCharts, withDefaultRegisterables } from 'ng2-charts';
 
 import { Me, Role } from '../../../core/api/auth-api';
-import { RawReading } from '../../../core/api/review-api';
+import { RawReading, Review } from '../../../core/api/review-api';
 import { Auth } from '../../../core/auth/auth';
 import { meAs } from '../../../testing/me-fixtures';
 import { coChannel } from '../../imports/testing/import-fixtures';
-import { emptyDailyFixture, emptyHourlyFixture, noxLimit, readingsFixture, reviewFixture, site, stack } from '../testing/review-fixtures';
+import { emptyDailyFixture, emptyHourlyFixture, noxLimit, readingsFixture, reviewFixture, site, stack, toWire } from '../testing/review-fixtures';
 import { ReviewPage } from './review-page';
 
 async function settle(fixture: ComponentFixture<unknown>): Promise<void> {
@@ -80,8 +80,10 @@ describe('ReviewPage', () => {
     await settle(fixture);
   }
 
-  function reviewRequest(): TestRequest {
-    return http.expectOne((request) => request.url === '/api/stacks/stack-b2/review');
+  /** The review request; `flush` answers it as the API would send the review given. */
+  function reviewRequest(): { request: TestRequest['request']; flush(review: Review): void } {
+    const pending = http.expectOne((request) => request.url === '/api/stacks/stack-b2/review');
+    return { request: pending.request, flush: (review) => pending.flush(toWire(review)) };
   }
 
   afterEach(() => http.verify());

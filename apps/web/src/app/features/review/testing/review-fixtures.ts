@@ -1,5 +1,5 @@
 import type { Limit } from '../../../core/api/permits-api';
-import type { Readings, Review, ReviewDaily, ReviewHourly } from '../../../core/api/review-api';
+import type { Column, Readings, Review, ReviewDaily, ReviewHourly, ReviewWire, SparseColumn } from '../../../core/api/review-api';
 import type { Site, StackWithChannels } from '../../../core/api/sites-api';
 import { noxChannel, o2Channel } from '../../imports/testing/import-fixtures';
 
@@ -160,4 +160,28 @@ export function readingsFixture(items: Readings['items']): Readings {
     ],
     hours: [],
   };
+}
+
+/** A full column as the API sends it: its exceptions from `usual`. */
+export function sparse(column: Column, usual: number | null): SparseColumn {
+  const at: number[] = [];
+  const values: (number | null)[] = [];
+  column.forEach((v, i) => {
+    if (v !== usual) {
+      at.push(i);
+      values.push(v);
+    }
+  });
+  return { usual, at, values };
+}
+
+/** A review as the API sends it (statuses, reasons and coverages as exceptions). */
+export function toWire(review: Review): ReviewWire {
+  const channels: ReviewWire['hourly']['channels'] = {};
+  for (const [id, c] of Object.entries(review.hourly.channels)) {
+    channels[id] = { ...c, status: sparse(c.status, 0), reason: sparse(c.reason, 0), coverage: sparse(c.coverage, 1) };
+  }
+  const limits: ReviewWire['hourly']['limits'] = {};
+  for (const [id, c] of Object.entries(review.hourly.limits)) limits[id] = { ...c, status: sparse(c.status, 0), reason: sparse(c.reason, 0) };
+  return { ...review, hourly: { ...review.hourly, channels, limits } };
 }
