@@ -87,7 +87,7 @@ describe('Overview', () => {
     await flushSites();
 
     expect(text()).toContain('Latest import: main-2026-10.xlsx into Main stack, committed 2 Nov 2026, 10:30 CET');
-    expect(text()).toContain('Data up to 31 Oct 2026, 23:59 CET');
+    expect(text()).toContain('Last reading 31 Oct 2026, 23:59 CET');
     expect(text()).toContain('No data imported yet');
     const targets = await linkTargets();
     expect(targets['Review its data']).toBe('/review/stacks/stack-1');

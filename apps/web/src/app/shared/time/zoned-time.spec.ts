@@ -1,4 +1,4 @@
-import { formatZoned, monthKeyOf, shiftMonth, zonedMidnight, zonedMonthRange } from './zoned-time';
+import { formatZoned, zoneShortName, monthKeyOf, shiftMonth, zonedMidnight, zonedMonthRange } from './zoned-time';
 
 describe('zoned time', () => {
   // Central European Time is UTC+1, summer time UTC+2; summer time ends on the last Sunday of
@@ -27,5 +27,18 @@ describe('zoned time', () => {
   it('shows the zone name beside the hour', () => {
     expect(formatZoned('2026-11-01T13:00:00Z', 'Europe/Berlin')).toMatch(/1 Nov 2026.*14:00.*(CET|GMT\+1)/);
     expect(formatZoned(null, 'UTC')).toBe('—');
+  });
+
+  // Abbreviations as the IANA/CLDR data name them (Central European and US Mountain time).
+  it('names European and North American zones, in winter and in summer', () => {
+    expect(formatZoned('2026-11-01T13:00:00Z', 'Europe/Berlin')).toBe('1 Nov 2026, 14:00 CET');
+    expect(formatZoned('2026-07-01T12:00:00Z', 'Europe/Berlin')).toBe('1 Jul 2026, 14:00 CEST');
+    expect(formatZoned('2026-11-01T19:00:00Z', 'America/Denver')).toBe('1 Nov 2026, 12:00 MST');
+    expect(formatZoned('2026-07-01T18:00:00Z', 'America/Denver')).toBe('1 Jul 2026, 12:00 MDT');
+  });
+
+  it('falls back to the offset where no abbreviation is in common use', () => {
+    expect(zoneShortName(Date.UTC(2026, 0, 1), 'Asia/Singapore')).toBe('GMT+8');
+    expect(zoneShortName(Date.UTC(2026, 0, 1), 'UTC')).toBe('UTC');
   });
 });

@@ -98,6 +98,28 @@ export function monthLabel(month: MonthKey): string {
 }
 
 const displayFormatters = new Map<string, Intl.DateTimeFormat>();
+const zoneNameFormatters = new Map<string, Intl.DateTimeFormat>();
+
+/**
+ * The zone's short name at an instant ("CET", "CEST", "MST", "MDT"), else its offset ("GMT+8").
+ * British English names the European zones and only offsets elsewhere; American English names the
+ * North American zones and only offsets elsewhere: the first that gives a name wins.
+ */
+export function zoneShortName(instant: number, timeZone: string): string {
+  let offsetName = '';
+  for (const locale of ['en-GB', 'en-US']) {
+    const key = `${locale}|${timeZone}`;
+    let formatter = zoneNameFormatters.get(key);
+    if (!formatter) {
+      formatter = new Intl.DateTimeFormat(locale, { timeZone, timeZoneName: 'short' });
+      zoneNameFormatters.set(key, formatter);
+    }
+    const name = formatter.formatToParts(instant).find((part) => part.type === 'timeZoneName')?.value ?? '';
+    if (name && !/^(GMT|UTC)[+-]/.test(name)) return name;
+    offsetName ||= name;
+  }
+  return offsetName || timeZone;
+}
 
 /**
  * An instant as the site reads it, e.g. "1 Nov 2026, 14:00 CET". The zone's short name is shown
@@ -118,9 +140,9 @@ export function formatZoned(instant: string | number | Date | null | undefined, 
       minute: '2-digit',
       ...(withSeconds ? { second: '2-digit' } : {}),
       hourCycle: 'h23',
-      timeZoneName: 'short',
     });
     displayFormatters.set(key, formatter);
   }
-  return formatter.format(new Date(instant));
+  const ms = new Date(instant).getTime();
+  return `${formatter.format(ms)} ${zoneShortName(ms, zone)}`;
 }
