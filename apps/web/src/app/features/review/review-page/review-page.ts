@@ -17,6 +17,7 @@ import { formatNumber } from '../../../shared/format-number';
 import { pollutants } from '../../../shared/setup-labels';
 import { StackPicker } from '../../../shared/stack-picker/stack-picker';
 import { MonthKey, formatZoned, isMonthKey, monthKeyOf, monthLabel, shiftMonth, zonedMonthRange } from '../../../shared/time/zoned-time';
+import { DailyTable } from '../daily-table/daily-table';
 import { HourlyTable } from '../hourly-table/hourly-table';
 import { LimitVerdicts } from '../limit-verdicts/limit-verdicts';
 import { ReadingsPanel } from '../readings-panel/readings-panel';
@@ -57,6 +58,7 @@ interface StackContext {
     RouterLink,
     CalcCaution,
     StackPicker,
+    DailyTable,
     HourlyTable,
     LimitVerdicts,
     ReadingsPanel,

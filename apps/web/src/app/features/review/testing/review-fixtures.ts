@@ -185,3 +185,37 @@ export function toWire(review: Review): ReviewWire {
   for (const [id, c] of Object.entries(review.hourly.limits)) limits[id] = { ...c, status: sparse(c.status, 0), reason: sparse(c.reason, 0) };
   return { ...review, hourly: { ...review.hourly, channels, limits } };
 }
+
+/**
+ * Six local days of Berlin around the end of summer time for the NOx daily limit (`noxLimit`: ELV
+ * 100 mg/Nm3, judged at 110 %, confidence interval 20 % of the ELV), invented figures:
+ * - Sat 24 Oct: valid, 95.3 measured;
+ * - Sun 25 Oct: 25 clock hours (CEST ends at 01:00 UTC, Directive 2000/84/EC art. 2 [memory]),
+ *   valid, 134.8 measured, above 110 after the interval too;
+ * - Mon 26 Oct: valid, 125.0 measured but 105.0 validated: above 110 only without the interval;
+ * - Tue 27 Oct: nothing stored for the limit;
+ * - Wed 28 Oct: the unit did not run;
+ * - Thu 29 Oct: not valid (12 invalid hours).
+ * Validated = measured − `confidenceIntervalMgPerNm3` (every hour lies above the interval, so no
+ * hour is floored at 0 and the day's mean moves by the interval itself; IED 2010/75/EU Annex V
+ * Part 3 point 10, see REFERENCES.md §5). With 0 the API sends the measured value as validated.
+ */
+export function dailyAcrossDstFixture(confidenceIntervalMgPerNm3 = 20): ReviewDaily {
+  const measured: Column = [95.3, 134.8, 125.0, null, null, 88.0];
+  const legend = emptyDailyFixture.statusLegend;
+  return {
+    dayStart: ['2026-10-23T22:00:00.000Z', '2026-10-24T22:00:00.000Z', '2026-10-25T23:00:00.000Z', '2026-10-26T23:00:00.000Z', '2026-10-27T23:00:00.000Z', '2026-10-28T23:00:00.000Z'],
+    dayEnd: ['2026-10-24T22:00:00.000Z', '2026-10-25T23:00:00.000Z', '2026-10-26T23:00:00.000Z', '2026-10-27T23:00:00.000Z', '2026-10-28T23:00:00.000Z', '2026-10-29T23:00:00.000Z'],
+    statusLegend: legend,
+    channels: {},
+    limits: {
+      'lim-nox-day': {
+        value: measured,
+        validatedValue: measured.map((v) => (v === null ? null : v - confidenceIntervalMgPerNm3)),
+        status: [code(legend, 'valid'), code(legend, 'valid'), code(legend, 'valid'), null, code(legend, 'not_operating'), code(legend, 'invalid')],
+        validHours: [24, 25, 24, null, 0, 12],
+        invalidHours: [0, 0, 0, null, 0, 12],
+      },
+    },
+  };
+}
