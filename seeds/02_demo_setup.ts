@@ -290,8 +290,9 @@ async function seedRedMesa(knex: Knex, adminId: string | null) {
     await addChannels(trx, t, ids.rmStack, 4, [
       { parameter: 'NOx', unit: 'ppm', basis: 'dry', conditions: 'standard', rangeMin: 0, rangeMax: 200, label: 'AB1_NOX_PPM' },
       { parameter: 'O2', unit: '%', basis: 'dry', conditions: 'standard', rangeMin: 0, rangeMax: 25, label: 'AB1_O2' },
-      { parameter: 'flow', unit: 'Nm3/h', basis: 'wet', conditions: 'standard', rangeMin: 0, rangeMax: 150000, label: 'AB1_FLOW' },
-      { parameter: 'temperature', unit: 'degC', basis: 'wet', conditions: 'actual', rangeMin: 0, rangeMax: 350, label: 'AB1_TEMP' },
+      // US practice: flow in standard cubic feet per hour (68 °F), temperature in °F.
+      { parameter: 'flow', unit: 'scfh', basis: 'wet', conditions: 'standard', rangeMin: 0, rangeMax: 5_000_000, label: 'AB1_FLOW_SCFH' },
+      { parameter: 'temperature', unit: 'degF', basis: 'wet', conditions: 'actual', rangeMin: 32, rangeMax: 650, label: 'AB1_TEMP_F' },
     ]);
     const effectiveFrom = '2023-05-01';
     await upsert(trx, 'permits', [

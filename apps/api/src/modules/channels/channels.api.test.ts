@@ -50,6 +50,18 @@ describe('POST /api/stacks/:stackId/channels', () => {
     expect(res.body.error.details).toEqual([expect.objectContaining({ path: 'unit', message: 'dust is reported in mg/Nm3, ug/Nm3' })]);
   });
 
+  it('accepts US units: flow in scfh, temperature in °F (and not scfh for a gas concentration)', async () => {
+    for (const body of [
+      { ...o2, parameter: 'flow', unit: 'scfh', basis: 'wet', rangeMin: 0, rangeMax: 5_000_000, sourceLabel: 'FLOW_SCFH' },
+      { ...o2, parameter: 'temperature', unit: 'degF', basis: 'wet', conditions: 'actual', rangeMin: 32, rangeMax: 650, sourceLabel: 'TEMP_F' },
+    ]) {
+      const res = await officer.post(`/api/stacks/${tree.stackId}/channels`, body);
+      expect(res.status).toBe(201);
+      expect(res.body.unit).toBe(body.unit);
+    }
+    expect((await officer.post(`/api/stacks/${tree.stackId}/channels`, { ...o2, parameter: 'SO2', unit: 'scfh' })).status).toBe(400);
+  });
+
   it('responds 400 for an inverted range', async () => {
     const res = await officer.post(`/api/stacks/${tree.stackId}/channels`, { ...o2, parameter: 'CO', unit: 'mg/Nm3', rangeMin: 100, rangeMax: 10 });
     expect(res.status).toBe(400);

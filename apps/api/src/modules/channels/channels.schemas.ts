@@ -8,7 +8,8 @@ export const CHANNEL_PARAMETERS = [
 ] as const;
 export type ChannelParameter = (typeof CHANNEL_PARAMETERS)[number];
 
-export const CHANNEL_UNITS = ['mg/Nm3', 'ppm', 'ug/Nm3', '%', 'Nm3/h', 'm3/h', 'degC', 'K', 'kPa', 'hPa', 'MW', 'kg/h', 't/h'] as const;
+/** `scfh`: standard cubic feet per hour at 68 °F and 29.92 in Hg (40 CFR 60.2); `degF`: °F. */
+export const CHANNEL_UNITS = ['mg/Nm3', 'ppm', 'ug/Nm3', '%', 'Nm3/h', 'm3/h', 'scfh', 'degC', 'degF', 'K', 'kPa', 'hPa', 'MW', 'kg/h', 't/h'] as const;
 export type ChannelUnit = (typeof CHANNEL_UNITS)[number];
 
 export const BASES = ['wet', 'dry'] as const;
@@ -39,8 +40,8 @@ export const UNITS_BY_PARAMETER: Record<ChannelParameter, readonly ChannelUnit[]
   CO2: VOLUME_SHARE,
   O2: VOLUME_SHARE,
   H2O: VOLUME_SHARE,
-  flow: ['Nm3/h', 'm3/h'],
-  temperature: ['degC', 'K'],
+  flow: ['Nm3/h', 'm3/h', 'scfh'],
+  temperature: ['degC', 'degF', 'K'],
   pressure: ['kPa', 'hPa'],
   load: ['MW', '%'],
   fuel_flow: ['kg/h', 't/h', 'Nm3/h', 'm3/h'],

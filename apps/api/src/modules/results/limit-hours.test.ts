@@ -104,6 +104,37 @@ describe('deriveLimitHours', () => {
     expect(rows[0]).toMatchObject({ value: 5, massKgPerHour: 5, status: 'valid' });
   });
 
+  it('takes a US flow in standard cubic feet per hour: 1,000,000 scfh (68 °F) = 26,385 Nm3/h → 2.6385 kg/h at 100 mg/Nm3', () => {
+    // 1 Nm3 = 35.3147 ft3 × 293.15 K / 273.15 K = 37.900 scf at 68 °F, 29.92 in Hg (40 CFR 60.2 standard
+    // conditions; 0.3048 m/ft exact; ideal gas) [derived].
+    const nox = channel('NOx', 'mg/Nm3');
+    const flow = channel('flow', 'scfh');
+    const plan = planLimit({ channels: [nox, flow], fuel: null }, { pollutant: 'NOx', unit: 'kg/h' });
+    if (!plan.ok) throw new Error(plan.problem);
+    const rows = deriveLimitHours(limit({ unit: 'kg/h', reference_o2_percent: null }), plan, new Map([[nox.id, constant(100)], [flow.id, constant(1_000_000)]]), null);
+    const nm3PerHour = 1_000_000 / ((1 / 0.3048 ** 3) * (293.15 / 273.15));
+    expect(nm3PerHour).toBeCloseTo(26_385, 0);
+    expect(rows[0]!.massKgPerHour).toBeCloseTo((100 * nm3PerHour) / 1e6, 9);
+  });
+
+  it('reads a temperature in °F as the same temperature in °C (212 °F = 100 °C, 50 °F = 10 °C)', () => {
+    const at = (unit: 'degC' | 'degF', value: number) => {
+      const nox = { ...channel('NOx', 'mg/Nm3'), conditions: 'actual' as const };
+      const temperature = channel('temperature', unit);
+      const pressure = channel('pressure', 'kPa');
+      const plan = planLimit({ channels: [nox, temperature, pressure], fuel: null }, { pollutant: 'NOx', unit: 'mg/Nm3' });
+      if (!plan.ok) throw new Error(plan.problem);
+      return deriveLimitHours(limit({ reference_o2_percent: null }), plan, new Map([[nox.id, constant(100)], [temperature.id, constant(value)], [pressure.id, constant(101.325)]]), null)[0]!;
+    };
+    for (const [f, c] of [[212, 100], [50, 10]] as const) {
+      const inC = at('degC', c);
+      expect(inC.status).toBe('valid');
+      expect(at('degF', f).value).toBeCloseTo(inC.value!, 9);
+    }
+    // 100 mg/m3 at 100 °C and 101.325 kPa is 100 × 373.15 / 273.15 mg/Nm3 (ideal gas).
+    expect(at('degF', 212).value).toBeCloseTo((100 * 373.15) / 273.15, 6);
+  });
+
   it('makes every hour invalid for an O2-referenced limit on a stack without O2', () => {
     const nox = channel('NOx', 'mg/Nm3');
     const plan = planLimit({ channels: [nox], fuel: null }, { pollutant: 'NOx', unit: 'mg/Nm3' });

@@ -6,6 +6,7 @@
  * average and no verdict of its own.
  */
 import {
+  CUBIC_FOOT_M3,
   CalcInputError,
   type DeriveInputs,
   type DeriveOptions,
@@ -13,6 +14,7 @@ import {
   HOUR_STATUSES,
   HourStatusCode,
   type HourlySeries,
+  NORMAL_TEMP_K,
   SPECIES,
   type Species,
   deriveHourlyValues,
@@ -20,6 +22,7 @@ import {
   gPerGJToLbPerMMBtu,
   mgPerNm3AtReferenceO2ToGPerGJ,
   mgPerNm3ToPpm,
+  US_STANDARD_TEMP_K,
   scfPerMMBtuToNm3PerGJ,
   stoichiometry,
 } from '@flueledger/calc';
@@ -71,8 +74,8 @@ export function planLimit(ctx: Pick<StackContext, 'channels' | 'fuel'>, limit: P
     o2: pick(ctx.channels, 'O2', (c) => c.unit === '%'),
     moisture: pick(ctx.channels, 'H2O', (c) => c.unit === '%'),
     // Only flows at standard conditions: an actual flow would need its own T and p.
-    flow: pick(ctx.channels, 'flow', (c) => c.unit === 'Nm3/h'),
-    temperature: pick(ctx.channels, 'temperature', (c) => c.unit === 'degC' || c.unit === 'K'),
+    flow: pick(ctx.channels, 'flow', (c) => c.unit === 'Nm3/h' || c.unit === 'scfh'),
+    temperature: pick(ctx.channels, 'temperature', (c) => c.unit === 'degC' || c.unit === 'degF' || c.unit === 'K'),
     pressure: pick(ctx.channels, 'pressure', (c) => c.unit === 'kPa' || c.unit === 'hPa'),
     fuelFlow: pick(ctx.channels, 'fuel_flow', (c) => c.unit === 'kg/h' || c.unit === 't/h'),
   };
@@ -107,6 +110,20 @@ function scaled(s: HourlySeries, factor: number, offset = 0): HourlySeries {
 const num = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 /**
+ * Normal cubic metres (0 °C, 101.325 kPa) in one standard cubic foot (68 °F = 293.15 K,
+ * 29.92 in Hg = 101.325 kPa; 40 CFR 60.2): the cubic foot (0.3048³ m3, exact) brought from 20 °C
+ * to 0 °C at the same pressure (ideal gas). [derived] 0.02638.
+ */
+export const NM3_PER_SCF = (CUBIC_FOOT_M3 * NORMAL_TEMP_K) / US_STANDARD_TEMP_K;
+
+function toKelvin(s: HourlySeries, unit: string): HourlySeries {
+  if (unit === 'degC') return scaled(s, 1, NORMAL_TEMP_K);
+  // °F → K: (°F − 32) × 5/9 + 273.15 (definition of the Fahrenheit scale).
+  if (unit === 'degF') return scaled(s, 5 / 9, NORMAL_TEMP_K - (32 * 5) / 9);
+  return s;
+}
+
+/**
  * Derives the limit's hourly values from the stack's hourly channel series (keyed by channel id).
  * One row per hour of the pollutant channel. Hours that cannot be stated in the limit's terms
  * (no usable O2 for an O2-referenced limit, no moisture for a wet channel, no flow for a mass
@@ -132,10 +149,10 @@ export function deriveLimitHours(
     pollutant: scaled(pollutantSeries, inputs.pollutant.unit === 'ug/Nm3' ? 1e-3 : 1),
     ...(at(inputs.o2) ? { o2: at(inputs.o2) } : {}),
     ...(at(inputs.moisture) ? { moisture: at(inputs.moisture) } : {}),
-    // °C → K (+273.15) and hPa → kPa (÷ 10): unit definitions.
-    ...(at(inputs.temperature) ? { temperatureK: scaled(at(inputs.temperature)!, 1, inputs.temperature!.unit === 'degC' ? 273.15 : 0) } : {}),
+    // °C → K (+273.15), °F → K (× 5/9, + 255.372…) and hPa → kPa (÷ 10): unit definitions.
+    ...(at(inputs.temperature) ? { temperatureK: toKelvin(at(inputs.temperature)!, inputs.temperature!.unit) } : {}),
     ...(at(inputs.pressure) ? { pressureKPa: scaled(at(inputs.pressure)!, inputs.pressure!.unit === 'hPa' ? 0.1 : 1) } : {}),
-    ...(at(inputs.flow) ? { flowNm3PerHour: at(inputs.flow) } : {}),
+    ...(at(inputs.flow) ? { flowNm3PerHour: scaled(at(inputs.flow)!, inputs.flow!.unit === 'scfh' ? NM3_PER_SCF : 1) } : {}),
   };
   let dryFlueGasNm3PerKgFuelStoich: number | undefined;
   if (!derivedInputs.flowNm3PerHour && at(inputs.fuelFlow) && fuel?.fuel) {

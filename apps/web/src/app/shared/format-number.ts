@@ -43,10 +43,11 @@ export function fractionDigitsFor(unit: string): number {
       return 2;
     case 'Nm3/h':
     case 'm3/h':
+    case 'scfh':
     case 't/yr':
       return 0;
     default:
-      // mg/Nm3, ppm, ng/J, °C, K, hPa
+      // mg/Nm3, ppm, ng/J, °C, °F, K, hPa
       return 1;
   }
 }

@@ -64,8 +64,8 @@ export const unitsByParameter: Record<ChannelParameter, readonly ChannelUnit[]> 
   CO2: ['%'],
   O2: ['%'],
   H2O: ['%'],
-  flow: ['Nm3/h', 'm3/h'],
-  temperature: ['degC', 'K'],
+  flow: ['Nm3/h', 'm3/h', 'scfh'],
+  temperature: ['degC', 'degF', 'K'],
   pressure: ['kPa', 'hPa'],
   load: ['MW', '%'],
   fuel_flow: ['kg/h', 't/h', 'Nm3/h', 'm3/h'],
@@ -78,6 +78,8 @@ export function unitLabel(unit: ChannelUnit | LimitUnit | string): string {
   switch (unit) {
     case 'degC':
       return '°C';
+    case 'degF':
+      return '°F';
     case 'ug/Nm3':
       return 'µg/Nm3';
     default:

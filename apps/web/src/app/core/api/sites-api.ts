@@ -12,7 +12,7 @@ export type UnitType = 'boiler' | 'process_heater' | 'kiln' | 'gas_turbine' | 'e
 export type ChannelParameter =
   | 'NOx' | 'NO' | 'NO2' | 'SO2' | 'CO' | 'dust' | 'HCl' | 'HF' | 'TOC' | 'NH3' | 'Hg' | 'CO2'
   | 'O2' | 'H2O' | 'flow' | 'temperature' | 'pressure' | 'load' | 'fuel_flow';
-export type ChannelUnit = 'mg/Nm3' | 'ppm' | 'ug/Nm3' | '%' | 'Nm3/h' | 'm3/h' | 'degC' | 'K' | 'kPa' | 'hPa' | 'MW' | 'kg/h' | 't/h';
+export type ChannelUnit = 'mg/Nm3' | 'ppm' | 'ug/Nm3' | '%' | 'Nm3/h' | 'm3/h' | 'scfh' | 'degC' | 'degF' | 'K' | 'kPa' | 'hPa' | 'MW' | 'kg/h' | 't/h';
 export type Basis = 'wet' | 'dry';
 export type Conditions = 'actual' | 'standard';
 
