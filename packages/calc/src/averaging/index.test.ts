@@ -135,7 +135,8 @@ describe('rollingAverages', () => {
   const tz = 'America/Chicago';
   const start = Date.UTC(2026, 0, 1, 6); // 2026-01-01 00:00 CST
 
-  it('forms a 30-operating-day rolling average from the hourly values of the last 30 operating days (40 CFR 60 Subpart Da [memory])', () => {
+  it('forms a 30-operating-day rolling average from the hourly values of the last 30 operating days (40 CFR 60.48Da(b) [pub]; hourly-mean form [memory])', () => {
+    // §60.48Da(b): average over 30 successive boiler operating days, a new one each boiler operating day, https://www.ecfr.gov/current/title-40/part-60/section-60.48Da
     // 40 days; days 10–14 the unit is off; day d's hours all have value d.
     const off = (d: number) => d >= 10 && d < 15;
     const s = series(start, 40 * 24, (i) => Math.floor(i / 24), (i) => (off(Math.floor(i / 24)) ? 'not-operating' : 'valid'));
@@ -157,7 +158,7 @@ describe('rollingAverages', () => {
     expect(cal.find((p) => p.start === start + 34 * D)!.windowStart).toBe(start + 5 * D);
   });
 
-  it('requires N valid hours on M of the window\'s days (EPA Method 19 §12.7: 18 h on 22 of 30 days [memory])', () => {
+  it('requires N valid hours on M of the window\'s days (40 CFR 60 boiler rules: 18 h on 22 of 30 days [memory])', () => {
     // 30 days; on 9 of them only 17 valid hours.
     const s = series(start, 30 * 24, () => 50, (i) => (Math.floor(i / 24) < 9 && i % 24 >= 17 ? 'invalid' : 'valid'));
     const md = { minValidHoursPerDay: 18, minValidDays: 22 };

@@ -20,7 +20,8 @@ export interface MinDataRule {
   readonly minValidShare?: number;
   /**
    * Rolling windows: at least `minValidHoursPerDay` valid hours on at least `minValidDays` of the
-   * window's days (EPA Method 19 §12.7: 18 hours on 22 of 30 days [memory]).
+   * window's days (e.g. 18 hours on 22 of 30 days for 40 CFR 60 boiler rules [memory]; Method 19
+   * §12.7 covers compliance when that minimum is not met [pub: section title]).
    */
   readonly minValidHoursPerDay?: number;
   readonly minValidDays?: number;
@@ -376,13 +377,16 @@ export type RollingWindow =
 /**
  * Rolling averages. For `days`, one value per (operating) day: the mean of all usable hourly
  * values in that day and the preceding N − 1 (operating) days — how 40 CFR 60 Subpart Da forms
- * its 30-boiler-operating-day rolling average [memory]; an operating day is a local day in which
+ * its 30-boiler-operating-day rolling average (window of 30 successive boiler operating days,
+ * recomputed each boiler operating day: §60.48Da(b) [pub: https://www.ecfr.gov/current/title-40/part-60/section-60.48Da];
+ * mean of the hourly values [memory]); an operating day is a local day in which
  * the unit operated at any time. For `hours`, one value per (operating) hour over the last N
  * (operating) hours. `operatingOnly` defaults to true. Windows reach back before `from` when the
  * series holds earlier data; a window not yet full is `incomplete`.
  *
  * Minimum data: `minValidHours`, `minValidShare`, and for day windows `minValidHoursPerDay` on
- * `minValidDays` days (Method 19 §12.7: 18 h on 22 of 30 days [memory]).
+ * `minValidDays` days (18 h on 22 of 30 days in 40 CFR 60 boiler rules [memory]; not a Method 19
+ * figure — §12.7 covers compliance when the minimum is not met [pub: section title]).
  */
 export function rollingAverages(series: HourlySeries, opts: AveragingOptions & { readonly window: RollingWindow }): PeriodValue[] {
   assertTimeZone(opts.timeZone);

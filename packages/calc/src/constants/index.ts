@@ -76,9 +76,11 @@ export const MOLAR_MASS_G_PER_MOL: Readonly<Record<Species, number>> = {
 };
 
 /**
- * ppm → lb/scf conversion constants of 40 CFR Part 75 App. F §3 (Table "conversion factors"):
- * SO2 1.660e-7, NOx (as NO2) 1.194e-7 [pub]; CO 7.267e-8 [memory]. Other species are derived from
- * their molar mass: 1e-6 × M / 385.3 scf/lbmol.
+ * ppm → lb/scf conversion constants: SO2 1.660e-7 (40 CFR Part 75 App. F §2.1–2.2, "K = 1.660 ×
+ * 10−7 for SO2, (lb/scf)/ppm" [pub: https://www.ecfr.gov/current/title-40/part-75/appendix-Appendix%20F%20to%20Part%2075]),
+ * NOx (as NO2) 1.194e-7 (App. F §3; Method 19 Table 19-1) [pub]; CO 7.267e-8 [memory] — no
+ * published text found; 7.267e-8 is 28.0/385.3 × 1e-6, and with M = 28.010 the derivation gives
+ * 7.270e-8 (0.04 % higher). Other species are derived from their molar mass: 1e-6 × M / 385.3 scf/lbmol.
  */
 export const PART75_LB_PER_SCF_PER_PPM: Readonly<Partial<Record<Species, number>>> = {
   SO2: 1.66e-7,

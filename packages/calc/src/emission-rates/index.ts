@@ -18,7 +18,8 @@ import type { FFactorSet } from '../f-factors';
 
 /**
  * lb/scf per ppm of a species: the 40 CFR 75 App. F constant where one exists (SO2 1.660e-7,
- * NOx as NO2 1.194e-7, CO 7.267e-8 [memory]); otherwise 10⁻⁶·M/385.3 scf/lbmol (20 °C).
+ * NOx as NO2 1.194e-7 [pub], CO 7.267e-8 [memory] (no published text found; derived 7.270e-8));
+ * otherwise 10⁻⁶·M/385.3 scf/lbmol (20 °C).
  */
 export function lbPerScfPerPpm(species: Species): number {
   const regulatory = PART75_LB_PER_SCF_PER_PPM[species];

@@ -25,6 +25,10 @@ describe('DEFAULT_F_FACTORS', () => {
     expect(DEFAULT_F_FACTORS['coal-lignite']).toMatchObject({ fdDscfPerMMBtu: 9860, fcScfPerMMBtu: 1910 });
     expect(DEFAULT_F_FACTORS.wood).toMatchObject({ fdDscfPerMMBtu: 9240, fcScfPerMMBtu: 1830 });
     expect(DEFAULT_F_FACTORS['wood-bark']).toMatchObject({ fdDscfPerMMBtu: 9600, fcScfPerMMBtu: 1920 });
+    // Propane and butane Fd 8,710, Fc 1,190 / 1,250: Part 75 App. F F-/Fc-factor table [pub, as
+    // reproduced at https://www.ecfr.gov/current/title-40/part-75/appendix-Appendix%20F%20to%20Part%2075]
+    expect(DEFAULT_F_FACTORS.propane).toMatchObject({ fdDscfPerMMBtu: 8710, fcScfPerMMBtu: 1190 });
+    expect(DEFAULT_F_FACTORS.butane).toMatchObject({ fdDscfPerMMBtu: 8710, fcScfPerMMBtu: 1250 });
     for (const row of Object.values(DEFAULT_F_FACTORS)) expect(row.source).toMatch(/Method 19 Table 19-2/);
   });
 });

@@ -5,7 +5,10 @@
  * Fd, Fw, Fc from the ultimate analysis; §12.3.3 heat-input-weighted factors for fuel
  * mixes) and Table 19-2 (default F-factors; also 40 CFR 75 App. F Table 1). Standard
  * conditions 20 °C, 760 mm Hg. Constants per REFERENCES.md §2: Fd 3.64 H, 1.53 C, 0.57 S,
- * 0.14 N, −0.46 O [pub]; Fw 5.57 H and 0.21 H2O [memory]; Fc 0.321 C [memory].
+ * 0.14 N, −0.46 O [pub]; Fw 5.57 H and 0.21 H2O [memory]; Fc 0.321 C [memory]. No public copy of
+ * the Method 19 equations was found to confirm 5.57, 0.21 and 0.321; they agree with the ideal-gas
+ * derivation at 385.3 scf/lbmol: 0.321 ≈ 385.3/12.011/100 = 0.3208, 0.21 ≈ 385.3/18.015/100 =
+ * 0.214, 5.57 ≈ 3.64 + 385.3/2.016/100 = 5.55 [derived].
  */
 import { CalcInputError } from '../errors';
 import { BTU_J, BTU_PER_LB_IN_MJ_PER_KG, CUBIC_FOOT_M3, NORMAL_TEMP_K, US_STANDARD_TEMP_K } from '../constants';
@@ -111,14 +114,18 @@ const TABLE_19_2 = '40 CFR Part 60 App. A Method 19 Table 19-2; 40 CFR Part 75 A
 
 /**
  * Default F-factors, Method 19 Table 19-2 (= 40 CFR 75 App. F Table 1), dscf/MMBtu,
- * wscf/MMBtu, scf CO2/MMBtu at 20 °C. Fd and Fc [pub] except gaseous Fc of propane and
- * butane; Fw values [memory] — re-check before relying on them. Table 19-2 gives no Fw for
- * wood and bark.
+ * wscf/MMBtu, scf CO2/MMBtu at 20 °C. Fd and Fc [pub]; the propane and butane Fc (1,190 and
+ * 1,250) confirmed in the Part 75 App. F F-/Fc-factor table as reproduced at
+ * https://www.ecfr.gov/current/title-40/part-75/appendix-Appendix%20F%20to%20Part%2075 (coal anthracite 10,100/1,970, bituminous and
+ * subbituminous 9,780/1,800, lignite 9,860/1,910, oil 9,190/1,420, natural gas, propane, butane
+ * 8,710 with 1,040/1,190/1,250, bark 9,600/1,920, wood residue 9,240/1,830; 20 °C, 29.92 in Hg).
+ * Fw values [memory] — that table has no Fw column and no public copy of Table 19-2 with Fw was
+ * found; re-check before relying on them. Table 19-2 gives no Fw for wood and bark.
  */
 export const DEFAULT_F_FACTORS: Readonly<Record<DefaultFFactorFuel, Readonly<DefaultFFactor>>> = {
   'natural-gas': { label: 'Natural gas', fdDscfPerMMBtu: 8710, fwWscfPerMMBtu: 10610, fcScfPerMMBtu: 1040, source: `${TABLE_19_2}: Fd, Fc [pub]; Fw [memory]` },
-  propane: { label: 'Propane', fdDscfPerMMBtu: 8710, fwWscfPerMMBtu: 10200, fcScfPerMMBtu: 1190, source: `${TABLE_19_2}: Fd [pub]; Fw, Fc [memory]` },
-  butane: { label: 'Butane', fdDscfPerMMBtu: 8710, fwWscfPerMMBtu: 10390, fcScfPerMMBtu: 1250, source: `${TABLE_19_2}: Fd [pub]; Fw, Fc [memory]` },
+  propane: { label: 'Propane', fdDscfPerMMBtu: 8710, fwWscfPerMMBtu: 10200, fcScfPerMMBtu: 1190, source: `${TABLE_19_2}: Fd, Fc [pub]; Fw [memory]` },
+  butane: { label: 'Butane', fdDscfPerMMBtu: 8710, fwWscfPerMMBtu: 10390, fcScfPerMMBtu: 1250, source: `${TABLE_19_2}: Fd, Fc [pub]; Fw [memory]` },
   oil: { label: 'Oil', fdDscfPerMMBtu: 9190, fwWscfPerMMBtu: 10320, fcScfPerMMBtu: 1420, source: `${TABLE_19_2}: Fd, Fc [pub]; Fw [memory]` },
   'coal-anthracite': { label: 'Coal, anthracite', fdDscfPerMMBtu: 10100, fwWscfPerMMBtu: 10540, fcScfPerMMBtu: 1970, source: `${TABLE_19_2}: Fd, Fc [pub]; Fw [memory]` },
   'coal-bituminous': { label: 'Coal, bituminous', fdDscfPerMMBtu: 9780, fwWscfPerMMBtu: 10640, fcScfPerMMBtu: 1800, source: `${TABLE_19_2}: Fd, Fc [pub]; Fw [memory]` },

@@ -15,7 +15,7 @@
  *   (given, or estimated with `estimateGcv`); the fuel enters at 298.15 K (its sensible heat
  *   is not modelled) while the air is at `initialTempK`; moisture enters as liquid water; ash
  *   is left out of the energy balance.
- * - Fuel sulphur leaves as SO2 (ΔHf −296.81 kJ/mol, NIST-JANAF), not dissociated, with the
+ * - Fuel sulphur leaves as SO2 (ΔHf −296.81 kJ/mol, CODATA via NIST WebBook), not dissociated, with the
  *   sensible enthalpy of CO2 as an approximation (GRI-Mech 3.0 carries no sulphur species).
  * - Rich mixtures with the 'complete' model: products CO2, H2O, CO, H2, N2 in water–gas-shift
  *   equilibrium (no other dissociation), the usual textbook treatment (Turns §2.5).
@@ -35,7 +35,11 @@ export class FlameConvergenceError extends Error {
   override readonly name = 'FlameConvergenceError';
 }
 
-/** Standard enthalpy of formation of SO2(g), kJ/mol. NIST-JANAF tables [memory]. */
+/**
+ * Standard enthalpy of formation of SO2(g), kJ/mol [pub]: −70.939 ± 0.048 kcal/mol (CODATA, Cox,
+ * Wagman et al. 1984) = −296.81 kJ/mol, NIST Chemistry WebBook, sulfur dioxide,
+ * https://webbook.nist.gov/cgi/cbook.cgi?Mask=37&Source=1984GRA%2FVAN575&Units=CAL
+ */
 export const SO2_FORMATION_ENTHALPY_KJ_PER_MOL = -296.81;
 
 const T_REF_K = 298.15;

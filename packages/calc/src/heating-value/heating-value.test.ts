@@ -1,5 +1,5 @@
 import { CalcInputError } from '../errors';
-import { gasHeatingValue, heatingValues, hhvFromLhvMJPerKg, lhvFromHhvMJPerKg, solidGcvChanniwalaParikhMJPerKg } from './index';
+import { GAS_COMPONENT_HEATING_VALUE_KJ_PER_MOL, gasHeatingValue, heatingValues, hhvFromLhvMJPerKg, lhvFromHhvMJPerKg, solidGcvChanniwalaParikhMJPerKg } from './index';
 
 describe('gasHeatingValue', () => {
   it('gives methane HHV 55.5 and LHV 50.0 MJ/kg', () => {
@@ -7,8 +7,24 @@ describe('gasHeatingValue', () => {
     const hv = gasHeatingValue({ kind: 'gas', composition: { CH4: 100 } });
     expect(hv.hhvMJPerKg).toBeCloseTo(55.5, 1);
     expect(hv.lhvMJPerKg).toBeCloseTo(50.0, 1);
-    expect(hv.hhvMJPerNm3).toBeCloseTo(890.63 / 22.414, 2); // ISO 6976 25 °C / 0 °C metering, ideal gas [memory]
+    // ISO 6976:1995 Table 3, CH4 at 25 °C: gross 890.63, net 802.60 kJ/mol [pub: NeqSim
+    // ISO6976constants.csv, https://github.com/equinor/neqsim/blob/master/src/main/resources/data/ISO6976constants.csv]; 0 °C metering, ideal gas
+    expect(hv.hhvMJPerNm3).toBeCloseTo(890.63 / 22.414, 2);
+    expect(hv.lhvMJPerNm3).toBeCloseTo(802.6 / 22.414, 3);
     expect(hv.densityKgPerNm3).toBeCloseTo(0.7158, 3); // 16.043/22.414 [derived]
+  });
+  it('uses the 25 °C net values of ISO 6976 (gross − net = water formed × 44.016 kJ/mol)', () => {
+    // ISO 6976:1995 Table 3, 25 °C column [pub: NeqSim ISO6976constants.csv, URL above]:
+    // net CH4 802.60, C2H6 1428.64, C3H8 2043.11, n-C4H10 2657.32, H2S 517.99 kJ/mol;
+    // water at 25 °C 44.016 kJ/mol. The 15 °C column (802.69, 1428.84 …) would fail this.
+    const published = { CH4: 802.6, C2H6: 1428.64, C3H8: 2043.11, C4H10: 2657.32, H2S: 517.99, H2: 241.81, CO: 282.98 } as const;
+    const waterFormed = { CH4: 2, C2H6: 3, C3H8: 4, C4H10: 5, H2S: 1, H2: 1, CO: 0 } as const;
+    for (const [component, net] of Object.entries(published) as [keyof typeof published, number][]) {
+      const lhvMJPerNm3 = gasHeatingValue({ kind: 'gas', composition: { [component]: 100 } }).lhvMJPerNm3;
+      expect(lhvMJPerNm3 * 22.414).toBeCloseTo(net, 1);
+      const hv = GAS_COMPONENT_HEATING_VALUE_KJ_PER_MOL[component];
+      expect(hv.gross - hv.net).toBeCloseTo(waterFormed[component] * 44.016, 1);
+    }
   });
   it('weights components by mole fraction (hydrogen HHV 12.75 MJ/Nm3)', () => {
     const h2 = gasHeatingValue({ kind: 'gas', composition: { H2: 100 } });

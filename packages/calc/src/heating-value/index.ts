@@ -6,8 +6,12 @@
  * Sources:
  * - ISO 6976:1995 "Natural gas — Calculation of calorific values, density, relative density
  *   and Wobbe index from composition", Table 3, molar gross and net calorific values at
- *   25 °C combustion reference temperature [memory]. Check: CH4 gross 890.63 kJ/mol →
- *   55.51 MJ/kg, net 802.69 → 50.03 MJ/kg (REFERENCES.md §6: 55.5 / 50.0).
+ *   25 °C combustion reference temperature [pub: the ISO 6976:1995 table as reproduced in the
+ *   open-source NeqSim data file ISO6976constants.csv, columns Hsupmolar25 / Hinfmolar25,
+ *   https://github.com/equinor/neqsim/blob/master/src/main/resources/data/ISO6976constants.csv].
+ *   Check: CH4 gross 890.63 kJ/mol → 55.51 MJ/kg, net 802.60 → 50.03 MJ/kg (REFERENCES.md §6:
+ *   55.5 / 50.0); gross − net = moles of water formed × 44.016 kJ/mol (the 25 °C water entry of
+ *   the same table).
  * - S. A. Channiwala, P. P. Parikh, "A unified correlation for estimating HHV of solid,
  *   liquid and gaseous fuels", Fuel 81 (2002) 1051–1063, eq. (3):
  *   HHV [MJ/kg] = 0.3491 C + 1.1783 H + 0.1005 S − 0.1034 O − 0.0151 N − 0.0211 A (mass %).
@@ -19,15 +23,21 @@ import { CalcInputError } from '../errors';
 import { ATOMIC_WEIGHT, MOLAR_VOLUME_NM3_PER_KMOL } from '../constants';
 import { fuelElements, validateFuel, type Fuel, type GasComponent, type GaseousFuel, type UltimateAnalysis } from '../fuels';
 
-/** Molar gross (higher) and net (lower) heating values at 25 °C, kJ/mol. ISO 6976:1995 Table 3 [memory]. */
+/**
+ * Molar gross (higher) and net (lower) heating values at 25 °C combustion reference
+ * temperature, kJ/mol. ISO 6976:1995 Table 3, 25 °C column [pub: as reproduced in NeqSim
+ * ISO6976constants.csv, see the file header]. The net values were earlier typed from the
+ * 15 °C column (CH4 802.69, C2H6 1428.84, C3H8 2043.37, n-C4H10 2657.60, H2S 517.95); the
+ * 25 °C values below satisfy gross − net = n(H2O) × 44.016 kJ/mol.
+ */
 export const GAS_COMPONENT_HEATING_VALUE_KJ_PER_MOL: Readonly<Record<GasComponent, { gross: number; net: number }>> = {
-  CH4: { gross: 890.63, net: 802.69 },
-  C2H6: { gross: 1560.69, net: 1428.84 },
-  C3H8: { gross: 2219.17, net: 2043.37 },
-  C4H10: { gross: 2877.4, net: 2657.6 },
+  CH4: { gross: 890.63, net: 802.6 },
+  C2H6: { gross: 1560.69, net: 1428.64 },
+  C3H8: { gross: 2219.17, net: 2043.11 },
+  C4H10: { gross: 2877.4, net: 2657.32 },
   CO: { gross: 282.98, net: 282.98 },
   H2: { gross: 285.83, net: 241.81 },
-  H2S: { gross: 562.01, net: 517.95 },
+  H2S: { gross: 562.01, net: 517.99 },
   CO2: { gross: 0, net: 0 },
   N2: { gross: 0, net: 0 },
   O2: { gross: 0, net: 0 },
@@ -55,7 +65,7 @@ export interface GasHeatingValue {
 
 /**
  * Heating value of a gas from its composition (mol %), ideal gas, ISO 6976:1995 component
- * values at 25 °C [memory]. Real-gas compression factors (< 0.3 % for natural gas) are ignored.
+ * values at 25 °C [pub]. Real-gas compression factors (< 0.3 % for natural gas) are ignored.
  * @example gasHeatingValue({ kind: 'gas', composition: { CH4: 100 } }).hhvMJPerNm3 //=> 39.74
  */
 export function gasHeatingValue(fuel: GaseousFuel): GasHeatingValue {

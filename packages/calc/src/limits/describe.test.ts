@@ -37,7 +37,7 @@ describe('describeLimit', () => {
   });
 
   it('leaves the O2 out of a heat-input limit and names an operating-day rolling window', () => {
-    // 30-boiler-operating-day rolling average in lb/MMBtu: 40 CFR 60 Subpart Da [memory].
+    // 30-boiler-operating-day rolling average in lb/MMBtu: 40 CFR 60.48Da(b) [pub: https://www.ecfr.gov/current/title-40/part-60/section-60.48Da].
     const us: LimitSentenceInput = {
       ...daily,
       elv: 0.2,

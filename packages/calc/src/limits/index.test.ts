@@ -62,7 +62,9 @@ describe('limit rules as data', () => {
     });
   });
 
-  it('expresses a US 30-operating-day rolling limit and a 3-hour block limit (40 CFR 60 [memory])', () => {
+  it('expresses a US 30-operating-day rolling limit (40 CFR 60.48Da(b) [pub]) and a 3-hour block limit (40 CFR 60 [memory])', () => {
+    // §60.48Da(b): 30 successive boiler operating days, recomputed each boiler operating day, https://www.ecfr.gov/current/title-40/part-60/section-60.48Da;
+    // minimum data 18 h on 22 of 30 days [memory]
     const r = usRolling30DayRule({ pollutant: 'NOx', elv: 0.15, unit: 'lb/MMBtu' });
     expect(r.period).toEqual({ kind: 'rolling-days', days: 30, operatingDaysOnly: true });
     expect(r.ambientO2Percent).toBe(20.9);

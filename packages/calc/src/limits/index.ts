@@ -199,9 +199,14 @@ export interface UsPresetOptions {
 }
 
 /**
- * US-style 30-boiler-operating-day rolling average ≤ ELV: the mean of all valid hourly values of
- * the current and preceding 29 operating days (40 CFR 60 Subpart Da [memory]), with the
- * minimum data of EPA Method 19 §12.7 — 18 valid hours on at least 22 of the 30 days [memory].
+ * US-style 30-boiler-operating-day rolling average ≤ ELV: compliance "based on the average
+ * emission rate for 30 successive boiler operating days", a new rolling average computed at the
+ * end of each boiler operating day (40 CFR 60.48Da(b) [pub: https://www.ecfr.gov/current/title-40/part-60/section-60.48Da]);
+ * taken here as the mean of all valid hourly values of the current and preceding 29 operating
+ * days (hourly-mean form [memory]). Minimum data 18 valid hours on at least 22 of the 30
+ * days [memory] — recalled from the Subpart Da/Db monitoring sections, not from Method 19: Method
+ * 19 §12.7 is "Determination of Compliance When Minimum Data Requirement Is Not Met" [pub: section
+ * title, http://70.89.220.117/cleanairnet/Toolbox/Quality_Tools/EPA_Methods_Study_Guide/US_EPA_AirEmissionTestMethods_html/m-19.html].
  * Ambient O2 20.9 % (40 CFR 60).
  */
 export function usRolling30DayRule(opts: UsPresetOptions): LimitRule {
@@ -219,7 +224,7 @@ export function usRolling30DayRule(opts: UsPresetOptions): LimitRule {
     confidenceIntervalPercent: 0,
     minData: { minValidHoursPerDay: 18, minValidDays: 22 },
     ...(opts.nearMissPercent !== undefined ? { nearMissPercent: opts.nearMissPercent } : {}),
-    source: '40 CFR 60 Subpart Da (30-boiler-operating-day rolling average) [memory]; EPA Method 19 §12.7 minimum data [memory]',
+    source: '40 CFR 60.48Da(b) (30-boiler-operating-day rolling average) [pub]; minimum data 18 h on 22 of 30 days [memory]',
   });
 }
 

@@ -2,10 +2,13 @@
  * Mass emissions and heat input: 40 CFR Part 75 Appendix F equations, diluent caps, mass
  * rate from measured flow or from fuel flow × flue-gas volume, and period totals.
  *
- * Sources: 40 CFR Part 75 App. F §3 (SO2 eqs. F-1, F-2 [pub]), §4 (CO2 eq. F-11: 5.7e-7
- * [memory; derived 44.01/385.3/2000/100 = 5.71e-7]), §5 (heat input eqs. F-15 (CO2) and
- * F-17 (O2) [pub form, numbering from memory]), §3.3.4.1 (diluent cap: boilers 5.0 % CO2 /
- * 14.0 % O2 [pub], turbines 1.0 % CO2 / 19.0 % O2 [memory]); REFERENCES.md §3.
+ * Sources: 40 CFR Part 75 App. F §2.1–2.2 (SO2 mass rate, K = 1.660e-7 [pub]), §4 (CO2 eq. F-11:
+ * 5.7e-7 [memory; derived 44.01/385.3/2000/100 = 5.71e-7]), §5 (heat input eqs. F-15 (CO2) and
+ * F-17 (O2) [pub form, numbering from memory]), diluent cap: boilers 5.0 % CO2 / 14.0 % O2
+ * [pub: App. F §2, "a minimum concentration of 5.0 percent CO2 and a maximum concentration of
+ * 14.0 percent O2 may be substituted … at boilers", https://www.ecfr.gov/current/title-40/part-75/appendix-Appendix%20F%20to%20Part%2075],
+ * turbines 1.0 % CO2 / 19.0 % O2 [memory] (the NOx section §3.3.4.1 of App. F was not found in a
+ * readable public copy); REFERENCES.md §3.
  */
 import { CalcInputError } from '../errors';
 import type { Species } from '../constants';
@@ -16,7 +19,7 @@ import type { Fuel } from '../fuels';
 /** Unit type for the Part 75 diluent cap. */
 export type DiluentCapUnitType = 'boiler' | 'turbine';
 
-/** Diluent cap values of 40 CFR 75 App. F §3.3.4.1: boilers [pub], turbines [memory]. */
+/** Diluent cap values of 40 CFR 75 App. F (§2 for SO2, §3.3.4.1 for NOx): boilers [pub, App. F §2], turbines [memory]. */
 export const DILUENT_CAP: Readonly<Record<DiluentCapUnitType, { co2MinPercent: number; o2MaxPercent: number }>> = {
   boiler: { co2MinPercent: 5.0, o2MaxPercent: 14.0 },
   turbine: { co2MinPercent: 1.0, o2MaxPercent: 19.0 },
@@ -65,7 +68,8 @@ export function heatInputMMBtuPerHour(opts: {
 }
 
 /**
- * Heat input from stack flow and wet CO2, mmBtu/h, 40 CFR 75 App. F eq. F-15 [memory]:
+ * Heat input from stack flow and wet CO2, mmBtu/h, 40 CFR 75 App. F eq. F-15 [memory] (§5 of App. F
+ * not found in a readable public copy; the form follows from Fc = scf CO2 per mmBtu):
  * `HI = Qw · (1/Fc) · %CO2w/100`. With `diluentCap`, a CO2 below the cap is replaced by it.
  */
 export function heatInputFromCo2MMBtuPerHour(opts: { wetFlowScfh: number; co2PercentWet: number; fcScfPerMMBtu: number; diluentCap?: DiluentCapUnitType }): number {
@@ -78,8 +82,8 @@ export function heatInputFromCo2MMBtuPerHour(opts: { wetFlowScfh: number; co2Per
 }
 
 /**
- * Pollutant mass rate from concentration and wet stack flow, lb/h, 40 CFR 75 App. F §3:
- * wet concentration (eq. F-1) `E = K·C·Qw`; dry concentration (eq. F-2)
+ * Pollutant mass rate from concentration and wet stack flow, lb/h, 40 CFR 75 App. F §2.1–2.2
+ * (SO2; the same form serves other species): wet concentration (eq. F-1) `E = K·C·Qw`; dry concentration (eq. F-2)
  * `E = K·C·Qw·(100 − %H2O)/100`, K = lb/scf per ppm (SO2 1.660e-7).
  */
 export function pollutantMassRateLbPerHour(opts: {

@@ -20,8 +20,10 @@ describe('Part 75 App. F', () => {
     expect(hi).toBeCloseTo(((10_000_000 / 8710) * 0.9 * 15.9) / 20.9, 6);
   });
   it('applies the boiler diluent cap of 14.0 % O2 / 5.0 % CO2', () => {
-    expect(applyDiluentCap({ diluent: 'O2', percent: 16, unitType: 'boiler' })).toEqual({ percent: 14, capped: true }); // [pub]
-    expect(applyDiluentCap({ diluent: 'CO2', percent: 3, unitType: 'boiler' })).toEqual({ percent: 5, capped: true }); // [pub]
+    // 40 CFR 75 App. F §2: 5.0 % CO2 minimum / 14.0 % O2 maximum at boilers [pub:
+    // https://www.ecfr.gov/current/title-40/part-75/appendix-Appendix%20F%20to%20Part%2075]
+    expect(applyDiluentCap({ diluent: 'O2', percent: 16, unitType: 'boiler' })).toEqual({ percent: 14, capped: true });
+    expect(applyDiluentCap({ diluent: 'CO2', percent: 3, unitType: 'boiler' })).toEqual({ percent: 5, capped: true });
     expect(applyDiluentCap({ diluent: 'O2', percent: 18, unitType: 'turbine' })).toEqual({ percent: 18, capped: false }); // 19.0 % [memory]
     const capped = heatInputMMBtuPerHour({ wetFlowScfh: 1e6, moisturePercent: 0, o2PercentDry: 17, fdDscfPerMMBtu: 8710, diluentCap: 'boiler' });
     expect(capped).toBeCloseTo(((1e6 / 8710) * 6.9) / 20.9, 9);

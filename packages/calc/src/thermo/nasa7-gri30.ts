@@ -6,10 +6,14 @@
  * M. Frenklach, N. W. Moriarty, B. Eiteneer, M. Goldenberg, C. T. Bowman, R. K. Hanson,
  * S. Song, W. C. Gardiner Jr., V. V. Lissianski, Z. Qin, "GRI-Mech 3.0",
  * http://combustion.berkeley.edu/gri-mech/), the same data carried by open-source
- * combustion libraries' GRI-Mech 3.0 input files. Coefficients typed from that file
- * [memory]; `nasa7.test.ts` checks them against published ΔHf°, cp° and S° at 298.15 K
- * (JANAF / NIST) and checks that the low and high ranges meet at the mid temperature, which
- * catches a mistyped coefficient.
+ * combustion libraries' GRI-Mech 3.0 input files. Every coefficient and temperature range
+ * below was compared number by number with that data set as carried in Cantera's
+ * `data/gri30.yaml` (ck2yaml conversion of gri30.inp + gri30_thermo.dat,
+ * https://github.com/Cantera/cantera/blob/main/data/gri30.yaml) [pub]; the check found and
+ * corrected one mistyped digit (CH4 high-range a1, 0.07485149 → 0.074851495).
+ * `thermo.test.ts` compares the derived ΔHf°, cp° and S° at 298.15 K with published evaluated
+ * values (NIST WebBook/CCCBDB, CODATA, ATcT) and checks that the low and high ranges meet at the
+ * mid temperature.
  *
  * Form (REFERENCES.md §6): cp/R = a1 + a2T + a3T² + a4T³ + a5T⁴;
  * h/RT = a1 + a2T/2 + a3T²/3 + a4T³/4 + a5T⁴/5 + a6/T; s/R = a1 lnT + a2T + a3T²/2 + a4T³/3 + a5T⁴/4 + a7.
@@ -78,7 +82,7 @@ export const GRI30_THERMO: Readonly<Record<string, Nasa7Species>> = {
   CH4: {
     name: 'CH4', elements: { C: 1, H: 4 }, molarMassGPerMol: 16.043, tempRangeK: [200, 1000, 3500],
     low: [5.14987613, -1.36709788e-2, 4.91800599e-5, -4.84743026e-8, 1.66693956e-11, -1.02466476e4, -4.64130376],
-    high: [7.485149e-2, 1.33909467e-2, -5.73285809e-6, 1.22292535e-9, -1.0181523e-13, -9.46834459e3, 1.8437318e1],
+    high: [7.4851495e-2, 1.33909467e-2, -5.73285809e-6, 1.22292535e-9, -1.0181523e-13, -9.46834459e3, 1.8437318e1],
   },
   C2H6: {
     name: 'C2H6', elements: { C: 2, H: 6 }, molarMassGPerMol: 30.07, tempRangeK: [200, 1000, 3500],
