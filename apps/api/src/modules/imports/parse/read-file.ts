@@ -5,12 +5,12 @@
  */
 import { Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
-import parseSax from 'exceljs/lib/utils/parse-sax';
 import excelUtils from 'exceljs/lib/utils/utils';
 import type { RawCell } from './cells';
 import { readCsv, detectDelimiter } from './csv';
 import { decodeText, sniffFileType } from './file-type';
 import { SheetInterpreter, SheetRejected, type InterpretOptions, type ParsedSheet } from './sheet-interpreter';
+import { SheetXmlReader } from './sheet-xml';
 
 export type FileFormat = 'xlsx' | 'csv';
 
@@ -87,7 +87,7 @@ export function toRawCell(value: ExcelValue): RawCell {
   return String(value);
 }
 
-/** What the lean sheet reader needs of exceljs's WorkbookReader and WorksheetReader (exceljs 4.4). */
+/** What the sheet reader needs of exceljs's WorkbookReader and WorksheetReader (exceljs 4.4). */
 interface WorkbookInternals {
   sharedStrings?: ExcelValue[];
   styles: { getStyleModel(id: number): { numFmt?: string } | null };
@@ -95,165 +95,71 @@ interface WorkbookInternals {
 }
 interface WorksheetInternals {
   name?: string;
-  iterator: AsyncIterable<unknown>;
-}
-
-/** Column number (1-based) of a cell reference such as "AB12". */
-function columnOfRef(ref: string): number {
-  let col = 0;
-  for (let i = 0; i < ref.length; i++) {
-    const code = ref.charCodeAt(i);
-    if (code < 65 || code > 90) break;
-    col = col * 26 + (code - 64);
-  }
-  return col;
+  /** The worksheet part's bytes, as the zip entry is inflated. */
+  iterator: AsyncIterable<string | Uint8Array>;
 }
 
 /**
- * Reads one worksheet's rows with exceljs's own SAX events and value rules (shared strings,
- * inline strings, errors, booleans, formulas' cached results, date formats from the cell's or
- * the row's style), handing each row to `onRow` as interpreter cells. This replaces exceljs's
- * row iterator, which builds a Row, a Cell per cell and a style object per cell and resolves one
- * promise per row: for a month of one-minute data (450,000 cells) that object churn cost about
- * as much as the XML parsing itself. Cells come out as exceljs's `row.values` would give them
- * through `toRawCell`. Unlike exceljs, rows or cells without a reference (`r`) are placed after
- * the previous one instead of failing.
+ * Reads one worksheet's rows with our own sheet XML reader (sheet-xml.ts), handing each row to
+ * `onRow` as interpreter cells. exceljs's WorkbookReader still reads the package (zip, shared
+ * strings, styles, date system, which sheet is which); only the worksheet's XML is ours: saxes
+ * (exceljs's SAX parser) and exceljs's per-cell objects took ~0.8 s of the ~1.2 s a month of
+ * one-minute data took to parse. Cells come out as exceljs's own workbook loader gives them
+ * through `toRawCell`; read-file.test.ts checks that against it.
  */
 async function readSheetRows(worksheet: WorksheetInternals, workbook: WorkbookInternals, onRow: (rowNumber: number, cells: RawCell[]) => void): Promise<void> {
   const sharedStrings = workbook.sharedStrings;
   const date1904 = workbook.properties?.model?.date1904;
-  const dateStyle = new Map<number, boolean>();
-  const isDateStyle = (id: number): boolean | undefined => {
-    let known = dateStyle.get(id);
-    if (known === undefined) {
-      const model = workbook.styles.getStyleModel(id);
-      if (!model) return undefined;
-      known = excelUtils.isDateFmt(model.numFmt);
-      dateStyle.set(id, known);
-    }
-    return known;
-  };
-
-  let inRows = false;
-  let inRow = false;
-  let rowNumber = 0;
-  let rowIsDate = false;
-  let cells: RawCell[] = [];
-  let width = 0;
-  let column = 0;
-  // The cell being read: its type, style, formula and value text (exceljs keeps appending text to
-  // the last opened f/v/t element until the next one opens; so does this).
-  let inCell = false;
-  let cellType: string | undefined;
-  let cellStyle = 0;
-  let formula: string | null = null;
-  let valueText: string | null = null;
-  let current: 'f' | 'v' | null = null;
-
-  for await (const events of parseSax(worksheet.iterator)) {
-    for (const event of events) {
-      if (event.eventType === 'text') {
-        if (current === 'v') valueText += event.value;
-        else if (current === 'f') formula += event.value;
-        continue;
-      }
-      const node = event.value;
-      if (event.eventType === 'opentag') {
-        switch (node.name) {
-          case 'sheetData':
-            inRows = true;
-            break;
-          case 'row':
-            if (!inRows) break;
-            inRow = true;
-            rowNumber = node.attributes.r !== undefined ? parseInt(node.attributes.r, 10) : rowNumber + 1;
-            rowIsDate = node.attributes.s ? isDateStyle(parseInt(node.attributes.s, 10)) === true : false;
-            cells = [];
-            width = 0;
-            column = 0;
-            break;
-          case 'c':
-            if (!inRow) break;
-            inCell = true;
-            column = node.attributes.r !== undefined ? columnOfRef(node.attributes.r) : column + 1;
-            cellType = node.attributes.t;
-            cellStyle = parseInt(node.attributes.s ?? '', 10);
-            formula = null;
-            valueText = null;
-            current = null;
-            break;
-          case 'f':
-            if (inCell) {
-              formula = '';
-              current = 'f';
-            }
-            break;
-          case 'v':
-          case 'is':
-          case 't':
-            if (inCell) {
-              valueText = '';
-              current = 'v';
-            }
-            break;
-          default:
-            break;
-        }
-        continue;
-      }
-      // closetag
-      if (node.name === 'c' && inCell) {
-        inCell = false;
-        let value: RawCell | undefined;
-        let present = true;
-        if (valueText === null) {
-          // No value: a formula without a cached result still counts as a cell (exceljs keeps it).
-          present = formula !== null;
-          value = null;
-        } else if (formula !== null) {
-          value = cellType === 'str' ? excelUtils.xmlDecode(valueText) : parseFloat(valueText);
-        } else {
-          switch (cellType) {
-            case 's': {
-              const index = parseInt(valueText, 10);
-              value = sharedStrings ? toRawCell(sharedStrings[index]) : null;
-              present = sharedStrings ? sharedStrings[index] !== null && sharedStrings[index] !== undefined : true;
-              break;
-            }
-            case 'inlineStr':
-            case 'str':
-              value = excelUtils.xmlDecode(valueText);
-              break;
-            case 'e':
-              value = { error: valueText };
-              break;
-            case 'b':
-              value = parseInt(valueText, 10) !== 0;
-              break;
-            default: {
-              const own = cellStyle ? isDateStyle(cellStyle) : undefined;
-              const number = parseFloat(valueText);
-              value = (own ?? rowIsDate) ? excelUtils.excelToDate(number, date1904) : number;
-            }
-          }
-        }
-        if (present && column > 0) {
-          while (cells.length < column - 1) cells.push(null);
-          cells[column - 1] = value ?? null;
-          if (column > width) width = column;
-        }
-      } else if (node.name === 'row' && inRow) {
-        inRow = false;
-        cells.length = width;
-        onRow(rowNumber, cells);
-      } else if (node.name === 'sheetData') {
-        inRows = false;
-      }
-    }
-  }
+  const sharedCells: (RawCell | undefined)[] = [];
+  const reader = new SheetXmlReader(
+    {
+      sharedString(index) {
+        // Without a shared-string table the cell is kept, empty (as exceljs's streaming reader does).
+        if (!sharedStrings) return null;
+        const entry = sharedStrings[index];
+        if (entry === undefined) return undefined;
+        // exceljs keeps an empty `<si>` as null; it is the empty string (as exceljs's loader reads it).
+        if (entry === null) return '';
+        let cell = sharedCells[index];
+        if (cell === undefined) sharedCells[index] = cell = toRawCell(entry);
+        return cell;
+      },
+      isDateStyle(id) {
+        const model = workbook.styles.getStyleModel(id);
+        return model ? excelUtils.isDateFmt(model.numFmt) : undefined;
+      },
+      serialToDate: (serial) => excelUtils.excelToDate(serial, date1904),
+      decodeStr: (text) => excelUtils.xmlDecode(text),
+    },
+    onRow,
+  );
+  for await (const chunk of worksheet.iterator) reader.write(chunk);
+  reader.end();
 }
 
-async function parseWorkbook(bytes: Buffer, options: InterpretOptions): Promise<ParsedFile> {
+/** Receives the rows of one worksheet: row number (1-based) and cells (index 0 = column A). */
+export type SheetRowSink = (rowNumber: number, cells: RawCell[]) => void;
+
+export interface SheetRead {
+  /** Whether a worksheet with a non-blank cell was found (and read). */
+  found: boolean;
+  sheetsSeen: number;
+  sheetName: string | null;
+}
+
+/**
+ * Reads the rows of the workbook's first worksheet that has a non-blank cell. `open(date1904)`
+ * gives the receiver for each worksheet tried; a worksheet without data is read through and
+ * passed over. Throws what exceljs or the sheet reader throws (`parseWorkbook` turns that into
+ * a FileRejected).
+ *
+ * The reader is walked to its end even after the sheet is found, or after reading it failed:
+ * when a worksheet comes before the shared strings in the zip (as exceljs and Excel write them),
+ * exceljs copies it to a temporary file and deletes that file only when its iteration goes on
+ * past the sheet; stopping early left a copy of every uploaded sheet (16.5 MB for a month of
+ * minutes) in the temp folder until the process ended. Later worksheets are not read.
+ */
+export async function readFirstSheetWithData(bytes: Buffer, open: (date1904: boolean) => SheetRowSink): Promise<SheetRead> {
   const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([bytes]), {
     entries: 'emit',
     sharedStrings: 'cache',
@@ -262,31 +168,53 @@ async function parseWorkbook(bytes: Buffer, options: InterpretOptions): Promise<
     worksheets: 'emit',
   });
   let sheetsSeen = 0;
-  try {
-    for await (const worksheet of reader) {
-      sheetsSeen++;
-      const workbook = reader as unknown as WorkbookInternals;
-      const date1904 = workbook.properties?.model?.date1904 ?? false;
-      const interpreter = new SheetInterpreter({ ...options, date1904 });
-      let anyRow = false;
+  let found: SheetRead | null = null;
+  let failure: { error: unknown } | null = null;
+  for await (const worksheet of reader) {
+    if (found || failure) {
+      // A temporary copy's read stream is opened for us: close it unread.
+      (worksheet as unknown as { iterator: { destroy?: () => void } }).iterator.destroy?.();
+      continue;
+    }
+    sheetsSeen++;
+    const workbook = reader as unknown as WorkbookInternals;
+    let anyRow = false;
+    try {
+      const sink = open(workbook.properties?.model?.date1904 ?? false);
       await readSheetRows(worksheet as unknown as WorksheetInternals, workbook, (rowNumber, cells) => {
         if (!anyRow) {
           for (const cell of cells) {
-            if (cell !== null && !(typeof cell === 'string' && cell.trim() === '')) {
+            if (cell !== null && cell !== undefined && !(typeof cell === 'string' && cell.trim() === '')) {
               anyRow = true;
               break;
             }
           }
         }
-        interpreter.push(rowNumber, cells);
+        sink(rowNumber, cells);
       });
-      if (!anyRow) continue;
-      const name = (worksheet as unknown as WorksheetInternals).name ?? null;
-      return { ...interpreter.finish(), format: 'xlsx', sheetName: name };
+    } catch (error) {
+      failure = { error };
+      continue;
     }
+    if (anyRow) found = { found: true, sheetsSeen, sheetName: (worksheet as unknown as WorksheetInternals).name ?? null };
+  }
+  if (failure) throw failure.error;
+  return found ?? { found: false, sheetsSeen, sheetName: null };
+}
+
+async function parseWorkbook(bytes: Buffer, options: InterpretOptions): Promise<ParsedFile> {
+  let interpreter: SheetInterpreter | null = null;
+  let sheet: SheetRead;
+  try {
+    sheet = await readFirstSheetWithData(bytes, (date1904) => {
+      const current = new SheetInterpreter({ ...options, date1904 });
+      interpreter = current;
+      return (rowNumber, cells) => current.push(rowNumber, cells);
+    });
+    if (sheet.found && interpreter) return { ...(interpreter as SheetInterpreter).finish(), format: 'xlsx', sheetName: sheet.sheetName };
   } catch (error) {
     if (error instanceof SheetRejected || error instanceof FileRejected) rethrow(error);
     throw new FileRejected(422, 'corrupt_workbook', `The workbook cannot be read; it may be damaged or incomplete (${(error as Error).message.slice(0, 120)}).`);
   }
-  throw new FileRejected(422, 'empty_sheet', sheetsSeen === 0 ? 'The workbook has no worksheets.' : 'The workbook has no rows with data.');
+  throw new FileRejected(422, 'empty_sheet', sheet.sheetsSeen === 0 ? 'The workbook has no worksheets.' : 'The workbook has no rows with data.');
 }
