@@ -14,6 +14,8 @@ describe('headerHints', () => {
     ['Flue gas flow [Nm3/h]', 'flow', 'Nm3/h', null],
     ['Fuel flow [kg/h]', 'fuel_flow', 'kg/h', null],
     ['Temp °C', 'temperature', 'degC', null],
+    ['Stack flow [scfh]', 'flow', 'scfh', null],
+    ['Stack temp °F', 'temperature', 'degF', null],
     ['Dust [mg/Nm3]', 'dust', 'mg/Nm3', null],
     ['Hg [µg/Nm3]', 'Hg', 'ug/Nm3', null],
     ['Load [MW]', 'load', 'MW', null],

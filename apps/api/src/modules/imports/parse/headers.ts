@@ -10,7 +10,7 @@ export const channelParameters = [
 ] as const;
 export type ChannelParameter = (typeof channelParameters)[number];
 
-export const channelUnits = ['mg/Nm3', 'ppm', 'ug/Nm3', '%', 'Nm3/h', 'm3/h', 'degC', 'K', 'kPa', 'hPa', 'MW', 'kg/h', 't/h'] as const;
+export const channelUnits = ['mg/Nm3', 'ppm', 'ug/Nm3', '%', 'Nm3/h', 'm3/h', 'scfh', 'degC', 'degF', 'K', 'kPa', 'hPa', 'MW', 'kg/h', 't/h'] as const;
 export type ChannelUnit = (typeof channelUnits)[number];
 
 export interface HeaderHints {
@@ -47,7 +47,9 @@ const unitSpellings: Record<string, ChannelUnit> = {
   '%': '%', 'vol%': '%', '%vol': '%', 'vol.-%': '%', 'vol.%': '%', '%v/v': '%', 'vol-%': '%', 'percent': '%',
   'nm3/h': 'Nm3/h', 'm3n/h': 'Nm3/h', 'nm3/hr': 'Nm3/h', 'm3/hi.n.': 'Nm3/h',
   'm3/h': 'm3/h', 'am3/h': 'm3/h', 'm3/hr': 'm3/h', 'bm3/h': 'm3/h',
+  'scfh': 'scfh', 'scf/h': 'scfh', 'scf/hr': 'scfh', 'wscfh': 'scfh', 'dscfh': 'scfh',
   'degc': 'degC', '\u00b0c': 'degC', 'c': 'degC', 'deg.c': 'degC', 'celsius': 'degC',
+  'degf': 'degF', '\u00b0f': 'degF', 'f': 'degF', 'deg.f': 'degF', 'fahrenheit': 'degF',
   'k': 'K', 'kelvin': 'K',
   'kpa': 'kPa', 'hpa': 'hPa', 'mbar': 'hPa',
   'mw': 'MW', 'mwth': 'MW', 'mwel': 'MW', 'mwe': 'MW',
