@@ -1,14 +1,12 @@
 /**
  * Database access of the import module: stacks and channels as imports see them, the imports
- * table, staging (import_rows, import_problems, via COPY) and the stack's column map.
+ * table, staging (import_columns, import_problems) and the stack's column map.
  */
-import type { ReadingColumns } from '@flueledger/calc';
 import type { Knex } from 'knex';
 import { NotFound, Conflict } from '../../lib/errors';
-import { READING_STATUS_CODE, type DbReadingStatus } from '../results/channel-hours';
 import { whereSiteVisible } from '../sites/site-access';
 import type { SetupCtx } from '../sites/setup-context';
-import { copyField, copyLines } from './imports.copy';
+import { copyField, copyLines, copyOutBinary, packStagedColumn, packStagedRows, type StagedRows, unpackStagedColumn, unpackStagedRows } from './imports.copy';
 import type { ParsedFile } from './parse/read-file';
 import { columnLetter } from './parse/cells';
 import { rowProblemCodes } from './parse/sheet-interpreter';
@@ -36,7 +34,7 @@ export interface ChannelInfo {
   archivedAt: Date | null;
 }
 
-/** One value column as stored in imports.columns (position k ↔ import_rows.vals[k + 1]). */
+/** One value column as stored in imports.columns (position k + 1 ↔ staged part k + 1, import_columns). */
 export interface StoredColumn {
   index: number;
   letter: string;
@@ -248,31 +246,41 @@ export async function findCommittedTwin(ctx: SiteScope, stackId: string, sha256:
   return row ?? null;
 }
 
-/** Loads the parsed rows and problems of a file into staging with COPY. */
-export async function stageParsed(ctx: ImportCtx, importId: string, parsed: ParsedFile): Promise<void> {
+/** A staged file with the value columns that were asked for. */
+export interface StagedFile extends StagedRows {
+  /** Values by 1-based position (k ↔ imports.columns[k - 1]); NaN = no number in the cell. */
+  values: Map<number, Float64Array>;
+}
+
+/**
+ * Parts per INSERT up to about this many bytes: a month of one-minute data goes in one statement,
+ * the largest file the limits allow in a few (each statement's parameters are held in memory).
+ */
+const stagedBytesPerStatement = 32 * 1024 * 1024;
+
+const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/**
+ * Stages a parsed file (import_columns: the row fields as part 0, value column k as part k) and its
+ * problems, and returns it as staged. The parts are packed byte strings sent as binary parameters:
+ * nothing is formatted as text or parsed on either side.
+ */
+export async function stageParsed(ctx: ImportCtx, importId: string, parsed: ParsedFile): Promise<StagedFile> {
   const tenant = ctx.tenantId;
-  const { rowCount, rowNumbers, tUtcMs, statuses, values } = parsed;
-  function* rowLines(): Generator<string> {
-    const width = values.length;
-    for (let i = 0; i < rowCount; i++) {
-      const t = tUtcMs[i]!;
-      // Rejected rows are kept (without a time) so row numbers stay complete for the preview.
-      const parts = new Array<string>(width);
-      for (let k = 0; k < width; k++) {
-        const v = values[k]![i]!;
-        parts[k] = Number.isNaN(v) ? 'NULL' : String(v);
-      }
-      yield `${tenant}\t${importId}\t${rowNumbers[i]}\t${Number.isFinite(t) ? new Date(t).toISOString() : '\\N'}\t${statuses[i]}\t{${parts.join(',')}}`;
-    }
+  // Packed a statement's worth at a time, so a large file is not held twice over in memory.
+  const parts = [
+    { bytes: 64 + parsed.rowCount * 13, pack: () => packStagedRows(parsed) },
+    ...parsed.values.map((values) => ({ bytes: 8 + values.length * 8, pack: () => packStagedColumn(values) })),
+  ];
+  for (let from = 0; from < parts.length; ) {
+    let to = from + 1;
+    let bytes = parts[from]!.bytes;
+    while (to < parts.length && bytes + parts[to]!.bytes <= stagedBytesPerStatement) bytes += parts[to++]!.bytes;
+    const rows = [];
+    for (let part = from; part < to; part++) rows.push({ tenant_id: tenant, import_id: importId, part, content: parts[part]!.pack() });
+    await ctx.db('import_columns').insert(rows);
+    from = to;
   }
-  // PostgreSQL refuses COPY FROM into a table with row-level security: load a temporary table
-  // (private to this transaction), then move the rows over with one INSERT, which the policy checks.
-  await ctx.db.raw('drop table if exists pg_temp.import_rows_in');
-  await ctx.db.raw('create temp table import_rows_in (like import_rows) on commit drop');
-  await copyLines(ctx.db, 'COPY import_rows_in (tenant_id, import_id, row_number, t, status, vals) FROM STDIN', rowLines());
-  const staged = await ctx.db.raw('insert into import_rows select * from import_rows_in');
-  // The preview joins staging with stored readings: give the planner staging's new size.
-  await ctx.db.raw('select refresh_statistics(?, ?)', ['import_rows', staged.rowCount ?? 0]);
   const headers = new Map<number, string>([[parsed.timestampColumn, parsed.timestampHeader]]);
   for (const column of parsed.columns) headers.set(column.index, column.header);
   function* problemLines(): Generator<string> {
@@ -282,68 +290,45 @@ export async function stageParsed(ctx: ImportCtx, importId: string, parsed: Pars
       yield [tenant, importId, p.row, p.columnIndex, label, p.value, p.code, p.reason].map((f) => copyField(f)).join('\t');
     }
   }
-  if (parsed.problems.length === 0) return;
-  await ctx.db.raw('drop table if exists pg_temp.import_problems_in');
-  await ctx.db.raw('create temp table import_problems_in (like import_problems) on commit drop');
-  await copyLines(ctx.db, 'COPY import_problems_in (tenant_id, import_id, row_number, column_index, column_label, value, code, reason) FROM STDIN', problemLines());
-  await ctx.db.raw('insert into import_problems select * from import_problems_in');
+  if (parsed.problems.length > 0) {
+    await ctx.db.raw('drop table if exists pg_temp.import_problems_in');
+    await ctx.db.raw('create temp table import_problems_in (like import_problems) on commit drop');
+    await copyLines(ctx.db, 'COPY import_problems_in (tenant_id, import_id, row_number, column_index, column_label, value, code, reason) FROM STDIN', problemLines());
+    await ctx.db.raw('insert into import_problems select * from import_problems_in');
+  }
+  return {
+    rowCount: parsed.rowCount,
+    rowNumbers: parsed.rowNumbers,
+    tUtcMs: parsed.tUtcMs,
+    statuses: parsed.statuses,
+    values: new Map(parsed.values.map((values, k) => [k + 1, values])),
+  };
 }
 
 /**
- * The readings an import brings for the mapped channels, as engine columns by channel id: every
- * staged row with a time, per mapped column the cell when it holds a number or the row's status is
- * not valid (the rule of the commit's INSERT). In file order (the primary key's, so no sort), which
- * is the order the commit inserts them in. One statement: the rows
- * come back as one JSON document (times, statuses and the value arrays), which parses far faster
- * than a row object per staged row.
+ * The staged file with the value columns at `positions` (1-based), or null when the import is not
+ * staged (after a database crash emptied the unlogged table, or after housekeeping removed an old
+ * draft's staging). Read with COPY in binary: the parts arrive as their raw bytes.
  */
-export async function loadStagedReadings(ctx: ImportCtx, importId: string, mapped: { channelIds: readonly string[]; positions: readonly number[] }): Promise<Map<string, ReadingColumns>> {
-  const { rows } = await ctx.db.raw(
-    `select json_build_object('t', array_agg(date_part('epoch', s.t) * 1000), 's', array_agg(s.status), 'v', array_agg(s.vals))::text as columns
-       from (select t, status, vals from import_rows
-              where tenant_id = ? and import_id = ? and t is not null
-              order by row_number) s`,
-    [ctx.tenantId, importId],
+export async function loadStaged(ctx: ImportCtx, importId: string, positions: readonly number[]): Promise<StagedFile | null> {
+  // COPY takes no parameters: only validated uuids and integers are written into the query.
+  if (!uuidPattern.test(ctx.tenantId) || !uuidPattern.test(importId)) throw new Error('loadStaged: not a uuid');
+  const parts = [0, ...new Set(positions)];
+  if (!parts.every((p) => Number.isInteger(p) && p >= 0)) throw new Error('loadStaged: not a column position');
+  const rows = await copyOutBinary(
+    ctx.db,
+    `select part, content from import_columns
+      where tenant_id = '${ctx.tenantId}' and import_id = '${importId}' and part in (${parts.join(', ')})`,
   );
-  const out = new Map<string, ReadingColumns>();
-  const packed = rows[0]?.columns ? (JSON.parse(rows[0].columns as string) as { t: number[] | null; s: DbReadingStatus[] | null; v: (number | null)[][] | null }) : null;
-  const t = packed?.t ?? [];
-  const statuses = packed?.s ?? [];
-  const values = packed?.v ?? [];
-  const n = t.length;
-  const statusCodes = new Uint8Array(n);
-  const valid = new Uint8Array(n);
-  for (let i = 0; i < n; i++) {
-    statusCodes[i] = READING_STATUS_CODE[statuses[i]!];
-    valid[i] = statuses[i] === 'valid' ? 1 : 0;
-  }
-  mapped.channelIds.forEach((channelId, k) => {
-    const at = mapped.positions[k]! - 1;
-    let count = 0;
-    for (let i = 0; i < n; i++) if (values[i]![at] !== null || !valid[i]) count++;
-    const columns = { t: new Float64Array(count), value: new Float64Array(count), status: new Uint8Array(count) };
-    let j = 0;
-    for (let i = 0; i < n; i++) {
-      const value = values[i]![at]!;
-      if (value === null && valid[i]) continue;
-      columns.t[j] = t[i]!;
-      columns.value[j] = value === null ? NaN : value;
-      columns.status[j] = statusCodes[i]!;
-      j++;
-    }
-    out.set(channelId, columns);
-  });
-  return out;
+  const byPart = new Map(rows.map(([part, content]) => [part!.readInt32BE(0), content!]));
+  const head = byPart.get(0);
+  if (!head || parts.some((p) => !byPart.has(p))) return null;
+  return { ...unpackStagedRows(head), values: new Map(parts.slice(1).map((p) => [p, unpackStagedColumn(byPart.get(p)!)])) };
 }
 
 export async function clearStaging(ctx: ImportCtx, importId: string, alsoProblems: boolean): Promise<void> {
-  await ctx.db('import_rows').where({ tenant_id: ctx.tenantId, import_id: importId }).delete();
+  await ctx.db('import_columns').where({ tenant_id: ctx.tenantId, import_id: importId }).delete();
   if (alsoProblems) await ctx.db('import_problems').where({ tenant_id: ctx.tenantId, import_id: importId }).delete();
-}
-
-export async function isStaged(ctx: ImportCtx, importId: string): Promise<boolean> {
-  const row = await ctx.db('import_rows').where({ tenant_id: ctx.tenantId, import_id: importId }).first(ctx.db.raw('1 as one'));
-  return !!row;
 }
 
 export async function loadFile(ctx: ImportCtx, importId: string): Promise<Buffer> {

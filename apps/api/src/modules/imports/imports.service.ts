@@ -4,25 +4,27 @@
  * own short transactions, so a client polling GET …/progress sees it while the commit runs.
  */
 import { createHash } from 'node:crypto';
+import type { ReadingColumns } from '@flueledger/calc';
 import type { Knex } from 'knex';
 import { audit } from '../../lib/audit';
 import { withScope } from '../../lib/db';
 import { AppError, Conflict, Unprocessable, ValidationError, type ErrorDetail } from '../../lib/errors';
 import { onReadingsChanged, prepareReadingsChange, type PreparedReadingsChange } from '../readings/readings.hooks';
 import { ensureMonthPartitions, lockStackReadings, refreshMonthStatistics } from '../readings/readings.store';
+import { READING_STATUS_CODE, type DbReadingStatus } from '../results/channel-hours';
 import { wholeHours } from '../results/results.service';
+import { float8Param, textCodesParam, timestamptzParam, uuidRunsParam } from './imports.copy';
 import {
   clearStaging,
   findCommittedTwin,
   findImport,
   findStack,
   findStackForWrite,
-  isStaged,
   listChannels,
   listImports,
   loadFile,
   loadStackMap,
-  loadStagedReadings,
+  loadStaged,
   relevantProblems,
   saveStackMap,
   stageParsed,
@@ -31,6 +33,7 @@ import {
   type ImportRow,
   type MappingEntry,
   type StackInfo,
+  type StagedFile,
   type StoredColumn,
 } from './imports.repo';
 import type { CommitBody, CommitResultDto, ImportDraftDto, MappingBody, PreviewDto, UploadFields } from './imports.schemas';
@@ -48,11 +51,12 @@ export interface ImportDeps {
 
 // ---- test hooks ---------------------------------------------------------------------------------
 
-export type CommitPhase = 'staged' | 'inserted';
+export type CommitPhase = 'staged' | 'channel_inserted' | 'inserted';
 
 /**
  * Tests use this to fail or kill a commit at a known point (after the incoming values are staged
- * in the transaction, or after they are inserted) and check that nothing of it remains.
+ * in the transaction, after each channel's INSERT, or after all are inserted) and check that
+ * nothing of it remains.
  */
 export const commitTestHooks: { onPhase: ((phase: CommitPhase, trx: Knex.Transaction) => Promise<void>) | null } = { onPhase: null };
 
@@ -326,14 +330,20 @@ function assertEditable(row: ImportRow): void {
 }
 
 /** Re-reads the stored file into staging with the given settings (and refreshes the columns). */
-async function restage(ctx: ImportCtx, row: ImportRow, stack: StackInfo, channels: ChannelInfo[], settings: ParseSettings): Promise<{ parsed: ParsedFile; columns: StoredColumn[] }> {
+async function restage(
+  ctx: ImportCtx,
+  row: ImportRow,
+  stack: StackInfo,
+  channels: ChannelInfo[],
+  settings: ParseSettings,
+): Promise<{ parsed: ParsedFile; columns: StoredColumn[]; staged: StagedFile }> {
   const bytes = await loadFile(ctx, row.id);
   const parsed = await parseFor(stack, channels, bytes, settings);
   const stackMap = await loadStackMap(ctx, row.stack_id);
   const suggestions = suggestMapping(parsed.columns.map((c) => ({ index: c.index, hints: c.hints })), channels.filter((c) => !c.archivedAt), stackMap.entries);
   await clearStaging(ctx, row.id, true);
-  await stageParsed(ctx, row.id, parsed);
-  return { parsed, columns: storedColumns(parsed, suggestions) };
+  const staged = await stageParsed(ctx, row.id, parsed);
+  return { parsed, columns: storedColumns(parsed, suggestions), staged };
 }
 
 export async function setMapping(ctx: ImportCtx, importId: string, body: MappingBody): Promise<ImportDraftDto> {
@@ -409,7 +419,7 @@ export async function setMapping(ctx: ImportCtx, importId: string, body: Mapping
 
 interface MappedColumns {
   channelIds: string[];
-  /** 1-based positions in import_rows.vals. */
+  /** 1-based positions in imports.columns (the staged parts of the value columns). */
   positions: number[];
   columnIndexes: number[];
 }
@@ -427,57 +437,182 @@ function mappedColumns(row: ImportRow): MappedColumns {
   return result;
 }
 
-/** Staging may be empty after a database crash (UNLOGGED); rebuild it from the stored file. */
-async function ensureStaged(ctx: ImportCtx, row: ImportRow): Promise<void> {
-  if (row.row_count === 0 || (await isStaged(ctx, row.id))) return;
+/**
+ * The staged file with the mapped columns. Staging may be empty after a database crash
+ * (UNLOGGED) or after housekeeping removed an old draft's: then it is rebuilt from the stored file.
+ */
+async function stagedFileOf(ctx: ImportCtx, row: ImportRow, mapped: MappedColumns): Promise<StagedFile> {
+  if (row.row_count === 0) {
+    return { rowCount: 0, rowNumbers: new Int32Array(0), tUtcMs: new Float64Array(0), statuses: [], values: new Map(mapped.positions.map((p) => [p, new Float64Array(0)])) };
+  }
+  const staged = await loadStaged(ctx, row.id, mapped.positions);
+  if (staged) return staged;
   const stack = await findStack(ctx, row.stack_id);
   const channels = await listChannels(ctx, row.stack_id);
-  await restage(ctx, row, stack, channels, {
+  const restaged = await restage(ctx, row, stack, channels, {
     intervalConvention: row.interval_convention,
     timestampColumn: row.timestamp_column,
     statusColumn: row.status_column,
     periodFrom: dateOnly(row.period_from),
     periodTo: dateOnly(row.period_to),
   });
+  return restaged.staged;
+}
+
+/** The readings an import brings for one mapped channel (or a slice of them), in file order. */
+interface ChannelIncoming {
+  channelId: string;
+  /** Interval start, UTC ms. */
+  t: Float64Array;
+  /** NaN = no value (a cell without a number in a row whose status is not valid). */
+  value: Float64Array;
+  /** Index into the statuses' names (`Incoming.names`). */
+  status: Uint8Array;
+}
+
+interface Incoming {
+  /** The statuses the file uses; a reading's `status` indexes this. */
+  names: DbReadingStatus[];
+  channels: ChannelIncoming[];
 }
 
 /**
- * SQL selecting the incoming readings of an import (one per mapped cell with a time, and a value
- * or a non-valid status) with the current stored reading for the same channel and time, and the
- * class: new, unchanged or conflict. A stored value corrected since (current row not from an
- * import) counts as unchanged when the incoming value equals a value imported before: re-importing
- * a file must not undo, or conflict with, the corrections made to it.
+ * Readings per statement when they go to the database as parameters: a month of one-minute data
+ * is one statement per channel, the largest file a few, each with parameters of about 10 MB.
+ * Tests lower it to send a small file in several pieces.
  */
-function incomingSql(ctx: ImportCtx, row: ImportRow, mapped: MappedColumns, nothingStored = false): { sql: string; bindings: Knex.RawBinding[] } {
-  if (nothingStored) {
-    // Nothing stored yet for these channels in this span: every value is new, no look-ups needed.
-    return {
-      sql: `
-        select m.channel_id, s.t, s.vals[m.pos] as value, s.status, null::bigint as current_id, 'new'::text as cls
-        from import_rows s
-        cross join unnest(?::uuid[], ?::int[]) as m(channel_id, pos)
-        where s.tenant_id = ? and s.import_id = ? and s.t is not null and (s.vals[m.pos] is not null or s.status <> 'valid')`,
-      bindings: [mapped.channelIds, mapped.positions, ctx.tenantId, row.id],
-    };
+export const importBatching = { readingsPerStatement: 200_000 };
+
+/**
+ * Per mapped channel, the readings the import brings: one per row with a time whose cell holds a
+ * number, or whose status is not valid (then the reading records the status, with or without a
+ * value). The rule every count, comparison and INSERT of an import uses.
+ */
+function incomingReadings(staged: StagedFile, mapped: MappedColumns): Incoming {
+  const { rowCount, tUtcMs } = staged;
+  const names: DbReadingStatus[] = [];
+  const codeOf = new Map<string, number>();
+  const codes = new Uint8Array(rowCount);
+  const valid = new Uint8Array(rowCount);
+  for (let i = 0; i < rowCount; i++) {
+    const status = staged.statuses[i]!;
+    let code = codeOf.get(status);
+    if (code === undefined) {
+      code = names.push(status as DbReadingStatus) - 1;
+      codeOf.set(status, code);
+    }
+    codes[i] = code;
+    valid[i] = status === 'valid' ? 1 : 0;
+  }
+  const channels = mapped.channelIds.map((channelId, k) => {
+    const values = staged.values.get(mapped.positions[k]!)!;
+    let count = 0;
+    for (let i = 0; i < rowCount; i++) if (Number.isFinite(tUtcMs[i]!) && (!Number.isNaN(values[i]!) || !valid[i])) count++;
+    const incoming: ChannelIncoming = { channelId, t: new Float64Array(count), value: new Float64Array(count), status: new Uint8Array(count) };
+    let j = 0;
+    for (let i = 0; i < rowCount; i++) {
+      if (!Number.isFinite(tUtcMs[i]!) || (Number.isNaN(values[i]!) && valid[i])) continue;
+      incoming.t[j] = tUtcMs[i]!;
+      incoming.value[j] = values[i]!;
+      incoming.status[j] = codes[i]!;
+      j++;
+    }
+    return incoming;
+  });
+  return { names, channels };
+}
+
+function incomingCount(incoming: Incoming): number {
+  return incoming.channels.reduce((sum, c) => sum + c.t.length, 0);
+}
+
+/** A channel's readings in slices of at most `readingsPerStatement` (views, not copies). */
+function slicesOf(channel: ChannelIncoming): ChannelIncoming[] {
+  const { readingsPerStatement } = importBatching;
+  const slices: ChannelIncoming[] = [];
+  for (let from = 0; from < channel.t.length; from += readingsPerStatement) {
+    const to = Math.min(channel.t.length, from + readingsPerStatement);
+    slices.push({ channelId: channel.channelId, t: channel.t.subarray(from, to), value: channel.value.subarray(from, to), status: channel.status.subarray(from, to) });
+  }
+  return slices;
+}
+
+/** All channels' readings in groups of at most `readingsPerStatement`, for the comparison. */
+function comparisonGroups(incoming: Incoming): ChannelIncoming[][] {
+  const groups: ChannelIncoming[][] = [];
+  let group: ChannelIncoming[] = [];
+  let size = 0;
+  for (const slice of incoming.channels.flatMap(slicesOf)) {
+    if (size + slice.t.length > importBatching.readingsPerStatement && group.length > 0) {
+      groups.push(group);
+      group = [];
+      size = 0;
+    }
+    group.push(slice);
+    size += slice.t.length;
+  }
+  if (group.length > 0) groups.push(group);
+  return groups;
+}
+
+/** The incoming readings as engine columns by channel id (for the hourly results). */
+function readingColumnsOf(incoming: Incoming): Map<string, ReadingColumns> {
+  const engineCode = incoming.names.map((name) => READING_STATUS_CODE[name]);
+  return new Map(
+    incoming.channels.map((c) => {
+      const status = new Uint8Array(c.status.length);
+      for (let i = 0; i < status.length; i++) status[i] = engineCode[c.status[i]!]!;
+      return [c.channelId, { t: c.t, value: c.value, status }];
+    }),
+  );
+}
+
+/**
+ * SQL selecting a group of incoming readings (sent as binary array parameters) with the current
+ * stored reading for the same channel and time, and the class: new, unchanged or conflict. A
+ * stored value corrected since (current row not from an import) counts as unchanged when the
+ * incoming value equals a value imported before: re-importing a file must not undo, or conflict
+ * with, the corrections made to it. The planner sees the arrays' lengths (the parameters are
+ * known when it plans), so the join is planned for the real number of incoming readings.
+ */
+function incomingSql(ctx: ImportCtx, group: readonly ChannelIncoming[], names: readonly string[]): { sql: string; bindings: Knex.RawBinding[] } {
+  const total = group.reduce((sum, c) => sum + c.t.length, 0);
+  const t = new Float64Array(total);
+  const value = new Float64Array(total);
+  const status = new Uint8Array(total);
+  let at = 0;
+  for (const c of group) {
+    t.set(c.t, at);
+    value.set(c.value, at);
+    status.set(c.status, at);
+    at += c.t.length;
   }
   return {
     sql: `
-      select m.channel_id, s.t, s.vals[m.pos] as value, s.status, r.id as current_id,
+      select u.channel_id, u.t, u.value, u.status, r.id as current_id,
         case
           when r.id is null then 'new'
-          when r.value is not distinct from s.vals[m.pos] and r.status = s.status then 'unchanged'
+          when r.value is not distinct from u.value and r.status = u.status then 'unchanged'
           when r.import_id is null and exists (
             select 1 from readings o
-            where o.tenant_id = s.tenant_id and o.channel_id = m.channel_id and o.t = s.t and o.superseded_at is not null
-              and o.import_id is not null and o.value is not distinct from s.vals[m.pos] and o.status = s.status
+            where o.tenant_id = ? and o.channel_id = u.channel_id and o.t = u.t and o.superseded_at is not null
+              and o.import_id is not null and o.value is not distinct from u.value and o.status = u.status
           ) then 'unchanged'
           else 'conflict'
         end as cls
-      from import_rows s
-      cross join unnest(?::uuid[], ?::int[]) as m(channel_id, pos)
-      left join readings r on r.tenant_id = s.tenant_id and r.channel_id = m.channel_id and r.t = s.t and r.superseded_at is null
-      where s.tenant_id = ? and s.import_id = ? and s.t is not null and (s.vals[m.pos] is not null or s.status <> 'valid')`,
-    bindings: [mapped.channelIds, mapped.positions, ctx.tenantId, row.id],
+      from unnest(?::uuid[], ?::timestamptz[], ?::float8[], ?::text[]) as u(channel_id, t, value, status)
+      left join readings r on r.tenant_id = ? and r.channel_id = u.channel_id and r.t = u.t and r.superseded_at is null`,
+    bindings: [
+      ctx.tenantId,
+      uuidRunsParam(
+        group.map((c) => c.channelId),
+        group.map((c) => c.t.length),
+      ),
+      timestamptzParam(t),
+      float8Param(value),
+      textCodesParam(status, names),
+      ctx.tenantId,
+    ],
   };
 }
 
@@ -499,16 +634,6 @@ async function nothingStoredInSpan(ctx: ImportCtx, row: ImportRow, mapped: Mappe
   return result.rows[0].empty === true;
 }
 
-/** How many readings an import brings for the mapped channels (cells with a time, and a value or a non-valid status). */
-async function countIncoming(ctx: ImportCtx, row: ImportRow, mapped: MappedColumns): Promise<number> {
-  const result = await ctx.db.raw(
-    `select count(*) as n from import_rows s cross join unnest(?::int[]) as m(pos)
-     where s.tenant_id = ? and s.import_id = ? and s.t is not null and (s.vals[m.pos] is not null or s.status <> 'valid')`,
-    [mapped.positions, ctx.tenantId, row.id],
-  );
-  return Number(result.rows[0].n);
-}
-
 // ---- preview ------------------------------------------------------------------------------------
 
 const previewProblemLimit = 500;
@@ -516,8 +641,8 @@ const previewProblemLimit = 500;
 export async function preview(ctx: ImportCtx, importId: string): Promise<PreviewDto> {
   const row = await findImport(ctx, importId);
   const closed = row.state === 'committed' || row.state === 'rolled_back';
-  if (!closed) await ensureStaged(ctx, row);
   const mapped = mappedColumns(row);
+  const staged = closed ? null : await stagedFileOf(ctx, row, mapped);
   const problemsQuery = relevantProblems(ctx, importId, mapped.columnIndexes);
   const [{ count: problemCount }] = (await problemsQuery.clone().count({ count: '*' })) as { count: string }[];
   const problems = (await problemsQuery
@@ -541,66 +666,69 @@ export async function preview(ctx: ImportCtx, importId: string): Promise<Preview
     duplicates: row.duplicate_rows,
     notes: row.notes,
   };
-  if (closed) {
+  if (!staged) {
     // Staging is gone after commit/rollback; the stored readings are the record now.
     return { ...base, sampleRows: [], perChannel: [], gaps: [], overlap: { new: 0, unchanged: row.unchanged_count ?? 0, conflicting: 0 } };
   }
 
-  const sample = (await ctx
-    .db('import_rows')
-    .where({ tenant_id: ctx.tenantId, import_id: importId })
-    .whereNotNull('t')
-    .orderBy('row_number')
-    .limit(20)
-    .select('row_number', 't', 'status', 'vals')) as { row_number: number; t: Date; status: string; vals: (number | null)[] }[];
-  const sampleRows = sample.map((s) => ({
-    row: s.row_number,
-    t: s.t.toISOString(),
-    status: s.status,
-    values: Object.fromEntries(mapped.channelIds.map((channelId, k) => [channelId, s.vals[mapped.positions[k]! - 1] ?? null])),
+  // Rows with a time; the sample is the first of them by row number.
+  const timed: number[] = [];
+  for (let i = 0; i < staged.rowCount; i++) if (Number.isFinite(staged.tUtcMs[i]!)) timed.push(i);
+  const columnValues = mapped.positions.map((p) => staged.values.get(p)!);
+  const sampleRows = [...timed].sort((a, b) => staged.rowNumbers[a]! - staged.rowNumbers[b]!).slice(0, 20).map((i) => ({
+    row: staged.rowNumbers[i]!,
+    t: new Date(staged.tUtcMs[i]!).toISOString(),
+    status: staged.statuses[i]!,
+    values: Object.fromEntries(mapped.channelIds.map((channelId, k) => [channelId, Number.isNaN(columnValues[k]![i]!) ? null : columnValues[k]![i]!])),
   }));
 
-  let perChannel: PreviewDto['perChannel'] = [];
-  let overlap = { new: 0, unchanged: 0, conflicting: 0 };
+  // Per channel: readings (the commit's rule), valid ones, and min/max/mean over valid rows.
+  const perChannel: PreviewDto['perChannel'] = mapped.channelIds.map((channelId, k) => {
+    const values = columnValues[k]!;
+    let count = 0;
+    let valid = 0;
+    let min = Infinity;
+    let max = -Infinity;
+    let sum = 0;
+    for (const i of timed) {
+      const value = values[i]!;
+      const isValid = staged.statuses[i] === 'valid';
+      if (!Number.isNaN(value) || !isValid) count++;
+      if (Number.isNaN(value) || !isValid) continue;
+      valid++;
+      if (value < min) min = value;
+      if (value > max) max = value;
+      sum += value;
+    }
+    return { channelId, columnIndex: mapped.columnIndexes[k]!, count, valid, invalid: count - valid, min: valid ? min : null, max: valid ? max : null, mean: valid ? sum / valid : null };
+  });
+
+  const overlap = { new: 0, unchanged: 0, conflicting: 0 };
   if (mapped.channelIds.length > 0) {
-    const stats = await ctx.db.raw(
-      `select m.channel_id, m.pos,
-         count(*) filter (where s.vals[m.pos] is not null or s.status <> 'valid') as count,
-         count(*) filter (where s.vals[m.pos] is not null and s.status = 'valid') as valid,
-         min(s.vals[m.pos]) filter (where s.status = 'valid') as min,
-         max(s.vals[m.pos]) filter (where s.status = 'valid') as max,
-         avg(s.vals[m.pos]) filter (where s.status = 'valid') as mean
-       from import_rows s cross join unnest(?::uuid[], ?::int[]) as m(channel_id, pos)
-       where s.tenant_id = ? and s.import_id = ? and s.t is not null
-       group by m.channel_id, m.pos`,
-      [mapped.channelIds, mapped.positions, ctx.tenantId, importId],
-    );
-    const byChannel = new Map((stats.rows as { channel_id: string; count: string; valid: string; min: number | null; max: number | null; mean: number | null }[]).map((r) => [r.channel_id, r]));
-    perChannel = mapped.channelIds.map((channelId, k) => {
-      const r = byChannel.get(channelId);
-      const count = Number(r?.count ?? 0);
-      const valid = Number(r?.valid ?? 0);
-      return { channelId, columnIndex: mapped.columnIndexes[k]!, count, valid, invalid: count - valid, min: r?.min ?? null, max: r?.max ?? null, mean: r?.mean === null || r?.mean === undefined ? null : Number(r.mean) };
-    });
-    const incoming = incomingSql(ctx, row, mapped, await nothingStoredInSpan(ctx, row, mapped));
-    const classes = await ctx.db.raw(`select cls, count(*) as n from (${incoming.sql}) i group by cls`, incoming.bindings);
-    for (const c of classes.rows as { cls: string; n: string }[]) {
-      if (c.cls === 'new') overlap.new = Number(c.n);
-      else if (c.cls === 'unchanged') overlap.unchanged = Number(c.n);
-      else overlap.conflicting = Number(c.n);
+    const incoming = incomingReadings(staged, mapped);
+    if (await nothingStoredInSpan(ctx, row, mapped)) {
+      overlap.new = incomingCount(incoming);
+    } else {
+      for (const group of comparisonGroups(incoming)) {
+        const query = incomingSql(ctx, group, incoming.names);
+        const classes = await ctx.db.raw(`select cls, count(*) as n from (${query.sql}) i group by cls`, query.bindings);
+        for (const c of classes.rows as { cls: string; n: string }[]) {
+          if (c.cls === 'new') overlap.new += Number(c.n);
+          else if (c.cls === 'unchanged') overlap.unchanged += Number(c.n);
+          else overlap.conflicting += Number(c.n);
+        }
+      }
     }
   }
 
-  let gaps: { from: string; to: string }[] = [];
+  // Gaps: consecutive times (in time order) further apart than the file's interval; the first 100.
+  const gaps: { from: string; to: string }[] = [];
   if (row.interval_seconds) {
-    const gapRows = await ctx.db.raw(
-      `select prev_t + make_interval(secs => ?) as gap_from, t as gap_to
-       from (select t, lag(t) over (order by t) as prev_t from import_rows where tenant_id = ? and import_id = ? and t is not null) x
-       where t - prev_t > make_interval(secs => ?)
-       order by t limit 100`,
-      [row.interval_seconds, ctx.tenantId, importId, row.interval_seconds],
-    );
-    gaps = (gapRows.rows as { gap_from: Date; gap_to: Date }[]).map((g) => ({ from: g.gap_from.toISOString(), to: g.gap_to.toISOString() }));
+    const intervalMs = row.interval_seconds * 1000;
+    const times = Float64Array.from(timed, (i) => staged.tUtcMs[i]!).sort();
+    for (let i = 1; i < times.length && gaps.length < 100; i++) {
+      if (times[i]! - times[i - 1]! > intervalMs) gaps.push({ from: new Date(times[i - 1]! + intervalMs).toISOString(), to: new Date(times[i]!).toISOString() });
+    }
   }
   return { ...base, sampleRows, perChannel, gaps, overlap };
 }
@@ -624,14 +752,23 @@ export class ConflictsFound extends AppError {
   }
 }
 
+/**
+ * A progress note, on its own short transaction from the pool. Committed without waiting for its
+ * write-ahead log to reach the disk (synchronous_commit off, for this note's transaction only):
+ * while the commit it describes writes its readings, waiting for that flush meant waiting for the
+ * readings' log written so far, up to tens of milliseconds a note. Readers see the note at once
+ * either way; only a database crash in the next moment could lose it, and a crash also loses the
+ * uncommitted import the note describes (which stays committable, as after a failed attempt).
+ */
 async function writeProgress(deps: ImportDeps, ctx: ImportCtx, importId: string, fields: Record<string, unknown>): Promise<void> {
-  await withScope(deps.pool, { tenantId: ctx.tenantId, userId: ctx.userId }, (trx) =>
-    trx('imports')
+  await withScope(deps.pool, { tenantId: ctx.tenantId, userId: ctx.userId }, async (trx) => {
+    await trx.raw('set local synchronous_commit = off');
+    await trx('imports')
       .where({ tenant_id: ctx.tenantId, id: importId })
       // A late note from an earlier, failed attempt must never overwrite a finished import.
       .whereNotIn('state', ['committed', 'rolled_back'])
-      .update({ ...fields, progress_updated_at: trx.fn.now() }),
-  );
+      .update({ ...fields, progress_updated_at: trx.fn.now() });
+  });
 }
 
 export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string, body: CommitBody): Promise<CommitResultDto> {
@@ -647,9 +784,13 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
   const liveChannels = new Set((await listChannels(ctx, stack.id)).filter((c) => !c.archivedAt).map((c) => c.id));
   const stale = mapped.channelIds.filter((id) => !liveChannels.has(id));
   if (stale.length > 0) throw new Unprocessable('stale_mapping', 'A mapped channel was archived since; map the columns again.');
-  await ensureStaged(ctx, current);
+  const incoming = incomingReadings(await stagedFileOf(ctx, current, mapped), mapped);
 
   const totalCells = current.cell_count;
+  // Progress notes during the inserts go out one after the other on the pool while the next
+  // INSERT runs (nothing waits for them there); the last is awaited before the commit's final
+  // statements, so a failed note still fails the commit.
+  let notes: Promise<void> = Promise.resolve();
   try {
     await writeProgress(deps, ctx, importId, { state: 'committing', failure_message: null, progress_phase: 'preparing', progress_done: 0, progress_total: totalCells });
     // Partitions first, on their own short transactions: creating one locks the parent table.
@@ -664,11 +805,15 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
     const nothingStored = await nothingStoredInSpan(ctx, current, mapped);
     const counts = { new: 0, unchanged: 0, conflict: 0 };
     if (nothingStored) {
-      const known = mapped.positions.map((pos) => current.columns[pos - 1]?.incoming);
-      counts.new = known.every((n) => n !== undefined) ? known.reduce<number>((sum, n) => sum + n!, 0) : await countIncoming(ctx, current, mapped);
+      counts.new = incomingCount(incoming);
     } else {
-      const incoming = incomingSql(ctx, current, mapped);
-      await ctx.db.raw(`create temp table import_incoming on commit drop as ${incoming.sql}`, incoming.bindings);
+      await ctx.db.raw(
+        'create temp table import_incoming (channel_id uuid, t timestamptz, value double precision, status text, current_id bigint, cls text) on commit drop',
+      );
+      for (const group of comparisonGroups(incoming)) {
+        const query = incomingSql(ctx, group, incoming.names);
+        await ctx.db.raw(`insert into import_incoming ${query.sql}`, query.bindings);
+      }
       // Temporary tables are never analysed by autovacuum; the statements below join on this one.
       await ctx.db.raw('analyze import_incoming');
       const classes = await ctx.db.raw('select cls, count(*) as n from import_incoming group by cls');
@@ -683,27 +828,32 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
     const hookCtx = { tenantId: ctx.tenantId, userId: ctx.userId, requestId: ctx.requestId, db: ctx.db };
     const change = current.span_from && current.span_to ? { channelIds: mapped.channelIds, from: current.span_from, to: current.span_to } : null;
     // Into hours that hold nothing yet, the new readings are exactly the staged ones: the hourly
-    // results are computed from staging while the database inserts (instead of reading 44,640
+    // results are computed from them while the database inserts (instead of reading 44,640
     // readings per channel back afterwards), and stored after the inserts, in this transaction.
-    const prepared: PreparedReadingsChange | null =
-      nothingStored && change && counts.new > 0 ? await prepareReadingsChange(hookCtx, change, await loadStagedReadings(ctx, importId, mapped)) : null;
+    const prepared: PreparedReadingsChange | null = nothingStored && change && counts.new > 0 ? await prepareReadingsChange(hookCtx, change, readingColumnsOf(incoming)) : null;
 
     // New readings, one channel at a time so progress moves. Channels in id order and times in
     // order: the rows then reach the current-readings index in its own key order (channel, t), so
-    // its pages fill from left to right instead of splitting all over. Staging is read in row
-    // order (its primary key, so no sort that spills to disk): a logger writes its rows in time
-    // order; a file out of order imports just as correctly, only into less tidy index pages.
+    // its pages fill from left to right instead of splitting all over. The staged readings are in
+    // file order: a logger writes its rows in time order; a file out of order imports just as
+    // correctly, only into less tidy index pages. They go in as binary arrays (no text on either
+    // side), unnested by the INSERT, which row-level security checks row by row. The arrays are
+    // unnested in the select list, in step: that streams the rows, where unnest in FROM would
+    // first copy all of them into a tuplestore (a tenth or more of the INSERT's time).
     let done = 0;
-    const order = mapped.channelIds.map((channelId, k) => ({ channelId, position: mapped.positions[k]! })).sort((a, b) => (a.channelId < b.channelId ? -1 : 1));
-    for (const [n, { channelId, position }] of order.entries()) {
+    const channelOrder = [...incoming.channels].sort((a, b) => (a.channelId < b.channelId ? -1 : 1));
+    // Without stored readings, each channel's readings go in as parameters (in slices of at most
+    // readingsPerStatement); otherwise the new ones come from the comparison table, a channel a time.
+    const order = nothingStored ? channelOrder.flatMap(slicesOf) : channelOrder;
+    const encode = (c: ChannelIncoming): Buffer[] => [timestamptzParam(c.t), float8Param(c.value), textCodesParam(c.status, incoming.names)];
+    let nextParams = nothingStored && order.length > 0 ? encode(order[0]!) : [];
+    for (const [n, { channelId }] of order.entries()) {
       const insert = Promise.resolve(
         nothingStored
           ? ctx.db.raw(
               `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
-               select s.tenant_id, ?::uuid, s.t, s.vals[?], s.status, ?::uuid, ?::uuid from import_rows s
-               where s.tenant_id = ? and s.import_id = ? and s.t is not null and (s.vals[?] is not null or s.status <> 'valid')
-               order by s.row_number`,
-              [channelId, position, importId, ctx.userId, ctx.tenantId, importId, position],
+               select ?::uuid, ?::uuid, unnest(?::timestamptz[]), unnest(?::float8[]), unnest(?::text[]), ?::uuid, ?::uuid`,
+              [ctx.tenantId, channelId, ...nextParams, importId, ctx.userId],
             )
           : ctx.db.raw(
               `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
@@ -711,16 +861,20 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
               [ctx.tenantId, importId, ctx.userId, channelId],
             ),
       );
-      if (n === 0 && prepared) {
-        // Let the first INSERT reach the database, then compute the hours while it runs.
-        insert.catch(() => undefined);
-        await new Promise((resolve) => setImmediate(resolve));
-        prepared.compute();
-      }
+      insert.catch(() => undefined);
+      // Let the INSERT reach the database, then do the CPU work while it runs: the next channel's
+      // parameters and, the first time, the hours.
+      await new Promise((resolve) => setImmediate(resolve));
+      nextParams = nothingStored && n + 1 < order.length ? encode(order[n + 1]!) : [];
+      if (n === 0 && prepared) prepared.compute();
       const inserted = await insert;
       done += inserted.rowCount ?? 0;
-      await writeProgress(deps, ctx, importId, { progress_phase: 'inserting', progress_done: done + counts.unchanged, progress_total: totalIncoming });
+      const progressDone = done + counts.unchanged;
+      notes = notes.then(() => writeProgress(deps, ctx, importId, { progress_phase: 'inserting', progress_done: progressDone, progress_total: totalIncoming }));
+      notes.catch(() => undefined);
+      await commitTestHooks.onPhase?.('channel_inserted', ctx.db);
     }
+    await notes;
     // The statements' own counts are the record (the up-front count only drives progress).
     if (nothingStored) counts.new = done;
 
@@ -793,14 +947,20 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
     // wait for it. A refusal (conflicts) leaves the import as it was, ready to commit again.
     const refused = error instanceof AppError && error.status < 500;
     const previousState = current.state === 'committing' ? 'mapped' : current.state;
-    void writeProgress(
-      deps,
-      ctx,
-      importId,
-      refused
-        ? { state: previousState, progress_phase: 'refused', failure_message: (error as AppError).message }
-        : { state: 'failed', progress_phase: 'failed', failure_message: 'The commit failed; nothing of it was stored. Try again.' },
-    ).catch(() => undefined);
+    // After any progress note still on its way, so none lands on top of this one.
+    void notes
+      .catch(() => undefined)
+      .then(() =>
+        writeProgress(
+          deps,
+          ctx,
+          importId,
+          refused
+            ? { state: previousState, progress_phase: 'refused', failure_message: (error as AppError).message }
+            : { state: 'failed', progress_phase: 'failed', failure_message: 'The commit failed; nothing of it was stored. Try again.' },
+        ),
+      )
+      .catch(() => undefined);
     throw error;
   }
 }
