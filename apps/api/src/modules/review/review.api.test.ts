@@ -328,6 +328,43 @@ describe('GET /api/stacks/:stackId/review', () => {
     const again = await review(officer);
     expect(hourOf(again.body, Date.UTC(2026, 10, 2, 12)).limits[limitId].value).toBeCloseTo(corrected(60, 8, 3), 6);
   });
+
+  it('waits for an import or correction of the stack in progress before recomputing stale hours', async () => {
+    const before = await officer.get(`/api/permits/${tree.permitId}/limits`);
+    const version = before.body.items.find((l: { id: string }) => l.id === limitId).version;
+    const patched = await officer.patch(`/api/limits/${limitId}`, { referenceO2Percent: 6, version });
+    expect(patched.status).toBe(200);
+    // Another writer of the stack's readings holds the stack's lock (as an import commit does).
+    let release!: () => void;
+    const held = new Promise<void>((resolve) => (release = resolve));
+    let locked!: () => void;
+    const lockTaken = new Promise<void>((resolve) => (locked = resolve));
+    const writer = owner.transaction(async (trx) => {
+      await trx.raw("select pg_advisory_xact_lock(hashtextextended('readings:' || ?, 0))", [tree.stackId]);
+      locked();
+      await held;
+    });
+    await lockTaken;
+    let settled = false;
+    const pending = review(officer).then((res) => {
+      settled = true;
+      if (res.status !== 200) throw new Error(`review answered ${res.status}: ${JSON.stringify(res.body)}`);
+      return res;
+    });
+    try {
+      await new Promise((resolve) => setTimeout(resolve, 400));
+      expect(settled).toBe(false);
+    } finally {
+      release();
+      await writer;
+    }
+    const res = await pending;
+    expect(res.status).toBe(200);
+    expect(hourOf(res.body, Date.UTC(2026, 10, 2, 12)).limits[limitId].value).toBeCloseTo(corrected(60, 8, 6), 6);
+    const back = await officer.patch(`/api/limits/${limitId}`, { referenceO2Percent: 3, version: patched.body.version });
+    expect(back.status).toBe(200);
+    expect((await review(officer)).status).toBe(200);
+  });
 });
 
 describe('a manager', () => {

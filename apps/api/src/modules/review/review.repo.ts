@@ -100,7 +100,7 @@ const formatOf = (kind: SeriesKind, derivation: boolean) => (kind === 'limit' &&
 
 type SeriesKind = 'channel' | 'limit';
 
-// Per row, in the ordered subquery: the hour's offset from the month's start, status code and reason code.
+// Per row: the hour's offset from the month's start, status code and reason code (every aggregate orders by the offset).
 const rowCodes = `, ((date_part('epoch', hour_start) - date_part('epoch', k.month_start)) / 3600)::int as off,
   coalesce(array_position(:statuses::text[], status) - 1, ${UNKNOWN_STATUS_CODE}) as code,
   coalesce(array_position(:reasons::text[], reason) - 1, 0) as rcode`;
@@ -196,19 +196,14 @@ const keyOf = (kind: string, seriesId: string, monthMs: number) => `${kind}|${se
 function utcMonthStarts(fromMs: number, toMs: number): number[] {
   const out: number[] = [];
   const d = new Date(fromMs);
-  let m = Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), 1);
-  while (m < toMs) {
-    out.push(m);
-    const n = new Date(m);
-    m = Date.UTC(n.getUTCFullYear(), n.getUTCMonth() + 1, 1);
-  }
+  for (let m = Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), 1); m < toMs; m = nextUtcMonth(m)) out.push(m);
   return out;
 }
 
-const nextUtcMonth = (monthMs: number) => {
+function nextUtcMonth(monthMs: number): number {
   const d = new Date(monthMs);
   return Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + 1, 1);
-};
+}
 
 /** The documents of `keys`: stored ones as they are, missing ones built (and stored) in one statement. */
 async function loadDocs(scope: ResultsScope, keys: readonly DocKey[]): Promise<Map<string, string>> {

@@ -35,6 +35,7 @@ import { toLimitRule } from '../permits/limits.mapper';
 import type { LimitRow } from '../permits/limits.repo';
 import { toDbWord } from '../results/channel-hours';
 import { planLimit } from '../results/limit-hours';
+import { lockStackReadings } from '../readings/readings.store';
 import { ensureHourlyPartitions } from '../results/results.repo';
 import { limitHoursStale, recomputeLimitHours, wholeHours } from '../results/results.service';
 import type { StackContext } from '../results/stack-context';
@@ -146,19 +147,28 @@ export async function getReview(ctx: ReviewCtx, stackId: string, query: ReviewQu
   let stored = await read(!conditional);
 
   // Stale limit hours (older than the limit, its channels or the fuel analysis, or missing) are
-  // recomputed first, and read again.
+  // recomputed first, and read again. One writer of a stack's hourly results at a time: the
+  // recompute waits for an import or correction of the stack in progress (and another reader
+  // recomputing), then judges again on what that left, so two writers never interleave.
+  const staleLimits = (read: StoredHoursRead) =>
+    limits.filter((limit) => {
+      const plan = planLimit(sc, limit);
+      const m = read.limits.get(limit.id);
+      // Freshness is judged on the count of the period's own hours and the age of every hour read.
+      const have = { count: m?.countInPeriod ?? 0, oldestComputedAt: m?.oldest ?? Infinity };
+      const pollutantHours = plan.ok ? (read.channels.get(plan.inputs.pollutant.id)?.count ?? 0) : 0;
+      return limitHoursStale(sc, limit, plan, have, pollutantHours);
+    });
   let recomputed = false;
-  for (const limit of limits) {
-    const plan = planLimit(sc, limit);
-    const m = stored.limits.get(limit.id);
-    // Freshness is judged on the count of the period's own hours and the age of every hour read.
-    const have = { count: m?.countInPeriod ?? 0, oldestComputedAt: m?.oldest ?? Infinity };
-    const pollutantHours = plan.ok ? (stored.channels.get(plan.inputs.pollutant.id)?.count ?? 0) : 0;
-    if (!limitHoursStale(sc, limit, plan, have, pollutantHours)) continue;
-    const loadFrom = hours.from - lookbackMs(limit);
-    await ensureHourlyPartitions(scope, loadFrom, hours.to);
-    await recomputeLimitHours(scope, sc, limit, { from: loadFrom, to: hours.to }, plan);
-    recomputed = true;
+  if (staleLimits(stored).length > 0) {
+    await lockStackReadings(ctx.db, sc.stackId);
+    stored = await read(!conditional);
+    for (const limit of staleLimits(stored)) {
+      const loadFrom = hours.from - lookbackMs(limit);
+      await ensureHourlyPartitions(scope, loadFrom, hours.to);
+      await recomputeLimitHours(scope, sc, limit, { from: loadFrom, to: hours.to }, planLimit(sc, limit));
+      recomputed = true;
+    }
   }
   if (recomputed) stored = await read(!conditional);
   if (conditional) {
