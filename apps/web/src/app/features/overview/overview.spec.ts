@@ -48,7 +48,8 @@ describe('Overview', () => {
           stackId: 'stack-1',
           fileName: 'main-2026-10.xlsx',
           state: 'committed',
-          span: { from: '2026-09-30T22:01:00Z', to: '2026-10-31T22:59:00Z' },
+          // A month of October in Berlin: the span ends where the last interval ends (1 Nov, 00:00 CET).
+          span: { from: '2026-09-30T22:00:00Z', to: '2026-10-31T23:00:00Z' },
           committedAt: '2026-11-02T09:30:00Z',
         }),
       ],
@@ -87,7 +88,8 @@ describe('Overview', () => {
     await flushSites();
 
     expect(text()).toContain('Latest import: main-2026-10.xlsx into Main stack, committed 2 Nov 2026, 10:30 CET');
-    expect(text()).toContain('Last reading 31 Oct 2026, 23:59 CET');
+    expect(text()).toContain('Data through 31 Oct 2026');
+    expect(text()).not.toContain('1 Nov 2026');
     expect(text()).toContain('No data imported yet');
     const targets = await linkTargets();
     expect(targets['Review its data']).toBe('/review/stacks/stack-1');

@@ -9,7 +9,7 @@ import { ImportSummary, ImportsApi } from '../../core/api/imports-api';
 import { SiteDetail, SitesApi, Stack } from '../../core/api/sites-api';
 import { Auth } from '../../core/auth/auth';
 import { describePermission, roleLabels, roleSummaries } from '../../core/auth/roles';
-import { formatZoned } from '../../shared/time/zoned-time';
+import { formatZoned, formatZonedDate } from '../../shared/time/zoned-time';
 
 /** A stack on the overview, with the newest import that brought data in (none yet: null). */
 export interface StackStart {
@@ -83,6 +83,12 @@ export class Overview {
   });
 
   protected readonly formatZoned = formatZoned;
+  protected readonly formatZonedDate = formatZonedDate;
+
+  /** The last instant an import's data covers: its span ends where the last interval ends (exclusive). */
+  protected dataEnd(imported: { span?: { to: string } | null; committedAt: string | null }): number | string | null {
+    return imported.span ? Date.parse(imported.span.to) - 1 : imported.committedAt;
+  }
 
   constructor() {
     effect((onCleanup) => {

@@ -98,6 +98,19 @@ export function monthLabel(month: MonthKey): string {
 }
 
 const displayFormatters = new Map<string, Intl.DateTimeFormat>();
+const dateFormatters = new Map<string, Intl.DateTimeFormat>();
+
+/** The site's calendar day holding an instant, e.g. "31 Oct 2026". */
+export function formatZonedDate(instant: string | number | Date | null | undefined, timeZone: string | null | undefined): string {
+  if (instant === null || instant === undefined || instant === '') return '—';
+  const zone = timeZone || 'UTC';
+  let formatter = dateFormatters.get(zone);
+  if (!formatter) {
+    formatter = new Intl.DateTimeFormat('en-GB', { timeZone: zone, day: 'numeric', month: 'short', year: 'numeric' });
+    dateFormatters.set(zone, formatter);
+  }
+  return formatter.format(new Date(instant));
+}
 const zoneNameFormatters = new Map<string, Intl.DateTimeFormat>();
 
 /**
