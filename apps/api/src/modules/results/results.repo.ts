@@ -63,19 +63,24 @@ export async function loadCurrentReadingsOf(scope: ResultsScope, channelIds: rea
 }
 
 /**
- * First and last timestamp (UTC ms) of the current readings of each channel, in one statement
- * (each min/max is still answered from the current-readings index). Channels without current
- * readings are absent.
+ * First and last timestamp (UTC ms) of the current readings of each channel as seen from
+ * [fromMs, toMs), in one statement: exact inside the range; a reading before (after) the range
+ * stands for every earlier (later) one, since callers only clip the range with it. Each bound is
+ * one probe of the current-readings index that stops at its first row, so the work does not grow
+ * with the months of history (a plain min/max over all of them read every month partition).
+ * Channels without current readings are absent.
  */
-export async function currentReadingSpans(scope: ResultsScope, channelIds: readonly string[]): Promise<Map<string, { first: number; last: number }>> {
+export async function currentReadingSpans(scope: ResultsScope, channelIds: readonly string[], fromMs: number, toMs: number): Promise<Map<string, { first: number; last: number }>> {
   const out = new Map<string, { first: number; last: number }>();
   if (channelIds.length === 0) return out;
+  const probe = (condition: string, order: 'asc' | 'desc') =>
+    `(select t from readings r where r.tenant_id = :tenantId and r.channel_id = c.id and r.superseded_at is null and ${condition} order by t ${order} limit 1)`;
   const { rows } = await scope.db.raw(
     `select c.id::text as channel_id,
-            date_part('epoch', (select min(t) from readings r where r.tenant_id = ? and r.channel_id = c.id and r.superseded_at is null)) * 1000 as first,
-            date_part('epoch', (select max(t) from readings r where r.tenant_id = ? and r.channel_id = c.id and r.superseded_at is null)) * 1000 as last
-       from unnest(?::uuid[]) as c(id)`,
-    [scope.tenantId, scope.tenantId, [...channelIds]],
+            date_part('epoch', coalesce(${probe('r.t < :from', 'desc')}, ${probe('r.t >= :from', 'asc')})) * 1000 as first,
+            date_part('epoch', coalesce(${probe('r.t >= :to', 'asc')}, ${probe('r.t < :to', 'desc')})) * 1000 as last
+       from unnest(:ids::uuid[]) as c(id)`,
+    { tenantId: scope.tenantId, ids: [...channelIds], from: iso(fromMs), to: iso(toMs) } as unknown as Knex.RawBinding,
   );
   for (const r of rows as { channel_id: string; first: number | null; last: number | null }[]) {
     if (r.first !== null && r.last !== null) out.set(r.channel_id, { first: r.first, last: r.last });

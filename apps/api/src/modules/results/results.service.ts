@@ -164,7 +164,7 @@ async function readChannelHoursInputs(
   range: HourRange,
   known?: KnownReadings,
 ): Promise<() => Map<string, ChannelHourRow[]>> {
-  const spans = await currentReadingSpans(scope, channelIds);
+  const spans = await currentReadingSpans(scope, channelIds, range.from, range.to);
   if (known) {
     for (const id of channelIds) {
       const t = known.get(id)?.t;
