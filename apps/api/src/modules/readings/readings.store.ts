@@ -56,7 +56,13 @@ export async function refreshMonthStatistics(db: Db, tables: readonly Partitione
 /**
  * Serialises writers of one stack's readings for the rest of the transaction (two imports of
  * overlapping files, or an import and a correction, would otherwise both see a time as free).
+ *
+ * Then drops the session's cached sequence values: readings ids come from a cached sequence
+ * (migration 20261212000100) and order a reading's versions, so every holder of the lock must
+ * take its ids from a fresh block, above the ids of every earlier holder. Writers of readings
+ * call this before their first INSERT.
  */
 export async function lockStackReadings(trx: Knex.Transaction, stackId: string): Promise<void> {
   await trx.raw("select pg_advisory_xact_lock(hashtextextended('readings:' || ?, 0))", [stackId]);
+  await trx.raw('discard sequences');
 }
