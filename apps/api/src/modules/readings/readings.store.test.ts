@@ -63,7 +63,11 @@ it('orders the versions of a reading by id when sessions take turns under the st
   ];
   const versions = await owner.transaction(async (trx) => {
     await trx.raw("select set_config('app.tenant_id', ?, true)", [tenantId]);
-    return trx('readings').where({ tenant_id: tenantId, channel_id: channelId, t }).orderBy('id').select('id', 'value', 'superseded_by');
+    return (await trx('readings').where({ tenant_id: tenantId, channel_id: channelId, t }).orderBy('id').select('id', 'value', 'superseded_by')) as {
+      id: string;
+      value: number;
+      superseded_by: string | null;
+    }[];
   });
   // Written order = id order, and each version points at the next.
   expect(versions.map((v) => v.value)).toEqual([1, 2, 3, 4]);

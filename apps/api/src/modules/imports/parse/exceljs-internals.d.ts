@@ -10,3 +10,18 @@ declare module 'exceljs/lib/utils/utils' {
   };
   export default utils;
 }
+
+/** The part of unzipper 0.10 the workbook reader uses (read-file.ts): a zip read from memory. */
+declare module 'unzipper' {
+  import type { Readable } from 'node:stream';
+  interface ZipEntry {
+    path: string;
+    type: 'File' | 'Directory';
+    /** The entry's content, inflated. */
+    stream(password?: string): Readable;
+  }
+  const unzipper: {
+    Open: { buffer(bytes: Buffer): Promise<{ files: ZipEntry[] }> };
+  };
+  export default unzipper;
+}

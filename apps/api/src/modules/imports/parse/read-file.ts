@@ -5,6 +5,7 @@
  */
 import { Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
+import unzipper from 'unzipper';
 import excelUtils from 'exceljs/lib/utils/utils';
 import type { RawCell } from './cells';
 import { readCsv, detectDelimiter } from './csv';
@@ -87,27 +88,31 @@ export function toRawCell(value: ExcelValue): RawCell {
   return String(value);
 }
 
-/** What the sheet reader needs of exceljs's WorkbookReader and WorksheetReader (exceljs 4.4). */
+/**
+ * What the sheet reader uses of exceljs's WorkbookReader (exceljs 4.4): its parsers of the
+ * package's small parts, and what they leave behind.
+ */
 interface WorkbookInternals {
+  _parseRels(entry: Readable): Promise<void>;
+  _parseWorkbook(entry: Readable): Promise<void>;
+  _parseSharedStrings(entry: Readable): AsyncIterable<unknown>;
+  _parseStyles(entry: Readable): Promise<void>;
+  workbookRels?: { Id: string; Target: string }[];
+  model?: { sheets?: { id: number; name: string; rId: string }[] };
   sharedStrings?: ExcelValue[];
   styles: { getStyleModel(id: number): { numFmt?: string } | null };
   properties?: { model?: { date1904?: boolean } };
 }
-interface WorksheetInternals {
-  name?: string;
-  /** The worksheet part's bytes, as the zip entry is inflated. */
-  iterator: AsyncIterable<string | Uint8Array>;
-}
 
 /**
  * Reads one worksheet's rows with our own sheet XML reader (sheet-xml.ts), handing each row to
- * `onRow` as interpreter cells. exceljs's WorkbookReader still reads the package (zip, shared
- * strings, styles, date system, which sheet is which); only the worksheet's XML is ours: saxes
- * (exceljs's SAX parser) and exceljs's per-cell objects took ~0.8 s of the ~1.2 s a month of
- * one-minute data took to parse. Cells come out as exceljs's own workbook loader gives them
- * through `toRawCell`; read-file.test.ts checks that against it.
+ * `onRow` as interpreter cells. exceljs still reads the package's other parts (shared strings,
+ * styles, date system, sheet names); only the worksheet's XML is ours: saxes (exceljs's SAX
+ * parser) and exceljs's per-cell objects took ~0.8 s of the ~1.2 s a month of one-minute data
+ * took to parse. Cells come out as exceljs's own workbook loader gives them through `toRawCell`;
+ * read-file.test.ts checks that against it.
  */
-async function readSheetRows(worksheet: WorksheetInternals, workbook: WorkbookInternals, onRow: (rowNumber: number, cells: RawCell[]) => void): Promise<void> {
+async function readSheetRows(chunks: AsyncIterable<string | Uint8Array>, workbook: WorkbookInternals, onRow: (rowNumber: number, cells: RawCell[]) => void): Promise<void> {
   const sharedStrings = workbook.sharedStrings;
   const date1904 = workbook.properties?.model?.date1904;
   const sharedCells: (RawCell | undefined)[] = [];
@@ -133,7 +138,7 @@ async function readSheetRows(worksheet: WorksheetInternals, workbook: WorkbookIn
     },
     onRow,
   );
-  for await (const chunk of worksheet.iterator) reader.write(chunk);
+  for await (const chunk of chunks) reader.write(chunk);
   reader.end();
 }
 
@@ -147,59 +152,69 @@ export interface SheetRead {
   sheetName: string | null;
 }
 
+const worksheetPart = /^xl\/worksheets\/sheet(\d+)\.xml$/;
+
 /**
  * Reads the rows of the workbook's first worksheet that has a non-blank cell. `open(date1904)`
  * gives the receiver for each worksheet tried; a worksheet without data is read through and
- * passed over. Throws what exceljs or the sheet reader throws (`parseWorkbook` turns that into
- * a FileRejected).
+ * passed over. Throws what the zip reader, exceljs or the sheet reader throws (`parseWorkbook`
+ * turns that into a FileRejected).
  *
- * The reader is walked to its end even after the sheet is found, or after reading it failed:
- * when a worksheet comes before the shared strings in the zip (as exceljs and Excel write them),
- * exceljs copies it to a temporary file and deletes that file only when its iteration goes on
- * past the sheet; stopping early left a copy of every uploaded sheet (16.5 MB for a month of
- * minutes) in the temp folder until the process ended. Later worksheets are not read.
+ * The upload is in memory, so the zip is read through its central directory (unzipper, which
+ * exceljs itself uses; parts inflated by Node's zlib): first the parts every sheet depends on, in
+ * that order, then the worksheets in the order the zip holds them (the order exceljs's streaming
+ * reader emits them in for the files Excel and exceljs write, whose sheets come before their
+ * shared strings). Reading the zip as a stream, as exceljs's WorkbookReader does, meant copying
+ * each such sheet to a temporary file and reading it back (16.5 MB, about 0.1–0.2 s, for a
+ * month of one-minute data for eight channels); nothing is written to disk now.
  */
 export async function readFirstSheetWithData(bytes: Buffer, open: (date1904: boolean) => SheetRowSink): Promise<SheetRead> {
-  const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([bytes]), {
-    entries: 'emit',
+  const directory = await unzipper.Open.buffer(bytes);
+  const parts = new Map(directory.files.filter((f) => f.type === 'File').map((f) => [f.path, f]));
+  const workbook = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([]), {
     sharedStrings: 'cache',
     styles: 'cache',
     hyperlinks: 'ignore',
     worksheets: 'emit',
-  });
+  }) as unknown as WorkbookInternals;
+  const part = (path: string): Readable | null => parts.get(path)?.stream() ?? null;
+  const rels = part('xl/_rels/workbook.xml.rels');
+  if (rels) await workbook._parseRels(rels);
+  const book = part('xl/workbook.xml');
+  if (book) await workbook._parseWorkbook(book);
+  const sharedStrings = part('xl/sharedStrings.xml');
+  if (sharedStrings) for await (const _ of workbook._parseSharedStrings(sharedStrings));
+  const styles = part('xl/styles.xml');
+  if (styles) await workbook._parseStyles(styles);
+
   let sheetsSeen = 0;
-  let found: SheetRead | null = null;
-  let failure: { error: unknown } | null = null;
-  for await (const worksheet of reader) {
-    if (found || failure) {
-      // A temporary copy's read stream is opened for us: close it unread.
-      (worksheet as unknown as { iterator: { destroy?: () => void } }).iterator.destroy?.();
-      continue;
-    }
+  for (const [path, file] of parts) {
+    const sheetNo = worksheetPart.exec(path)?.[1];
+    if (sheetNo === undefined) continue;
     sheetsSeen++;
-    const workbook = reader as unknown as WorkbookInternals;
     let anyRow = false;
-    try {
-      const sink = open(workbook.properties?.model?.date1904 ?? false);
-      await readSheetRows(worksheet as unknown as WorksheetInternals, workbook, (rowNumber, cells) => {
-        if (!anyRow) {
-          for (const cell of cells) {
-            if (cell !== null && cell !== undefined && !(typeof cell === 'string' && cell.trim() === '')) {
-              anyRow = true;
-              break;
-            }
+    const sink = open(workbook.properties?.model?.date1904 ?? false);
+    await readSheetRows(file.stream(), workbook, (rowNumber, cells) => {
+      if (!anyRow) {
+        for (const cell of cells) {
+          if (cell !== null && cell !== undefined && !(typeof cell === 'string' && cell.trim() === '')) {
+            anyRow = true;
+            break;
           }
         }
-        sink(rowNumber, cells);
-      });
-    } catch (error) {
-      failure = { error };
-      continue;
-    }
-    if (anyRow) found = { found: true, sheetsSeen, sheetName: (worksheet as unknown as WorksheetInternals).name ?? null };
+      }
+      sink(rowNumber, cells);
+    });
+    if (anyRow) return { found: true, sheetsSeen, sheetName: sheetNameOf(workbook, sheetNo) };
   }
-  if (failure) throw failure.error;
-  return found ?? { found: false, sheetsSeen, sheetName: null };
+  return { found: false, sheetsSeen, sheetName: null };
+}
+
+/** The worksheet's name in the workbook (its tab), found as exceljs's WorkbookReader finds it. */
+function sheetNameOf(workbook: WorkbookInternals, sheetNo: string): string {
+  const rel = (workbook.workbookRels ?? []).find((r) => r.Target === `worksheets/sheet${sheetNo}.xml`);
+  const sheet = rel && (workbook.model?.sheets ?? []).find((s) => s.rId === rel.Id);
+  return sheet?.name ?? `Sheet${sheetNo}`;
 }
 
 async function parseWorkbook(bytes: Buffer, options: InterpretOptions): Promise<ParsedFile> {
