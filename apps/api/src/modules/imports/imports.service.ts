@@ -13,7 +13,7 @@ import { onReadingsChanged, prepareReadingsChange, type PreparedReadingsChange }
 import { ensureMonthPartitions, lockStackReadings, refreshMonthStatistics } from '../readings/readings.store';
 import { READING_STATUS_CODE, type DbReadingStatus } from '../results/channel-hours';
 import { wholeHours } from '../results/results.service';
-import { float8Param, textCodesParam, timestamptzParam, uuidRunsParam } from './imports.copy';
+import { float8Param, textCodesParam, timestamptzParam, uuidRunsParam } from '../../lib/pg-arrays';
 import {
   clearStaging,
   findCommittedTwin,

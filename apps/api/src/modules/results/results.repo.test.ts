@@ -3,7 +3,9 @@ import { withScope } from '../../lib/db';
 import { type TestOrganisation, asOwnerInTenant, createOrganisation } from '../../test-support/fixtures';
 import { type TestApp, createOwnerDb, createTestApp } from '../../test-support/test-app';
 import { type SiteTree, buildSiteTree } from '../sites/setup-fixtures';
-import { currentReadingSpans } from './results.repo';
+import type { ChannelHourRow } from './channel-hours';
+import type { LimitHourRow } from './limit-hours';
+import { currentReadingSpans, ensureHourlyPartitions, loadChannelHours, loadLimitHours, replaceChannelHoursOf, replaceLimitHours } from './results.repo';
 
 const H = 3_600_000;
 /** Current readings at these instants: one in September, a run in November, one in December. */
@@ -70,5 +72,39 @@ describe('currentReadingSpans', () => {
       currentReadingSpans({ tenantId: org.id, db }, ['00000000-0000-4000-8000-000000000000'], Date.UTC(2026, 10, 1), Date.UTC(2026, 11, 1)),
     );
     expect(other.size).toBe(0);
+  });
+});
+
+describe('hourly writes read back field for field', () => {
+  const OCTOBER = Date.UTC(2026, 9, 1);
+  const scope = <T>(work: (s: { tenantId: string; db: Knex.Transaction }) => Promise<T>) =>
+    withScope(t.db, { tenantId: org.id, userId: org.users.officer.id }, (db) => work({ tenantId: org.id, db }));
+
+  it('stores every field of channel hours: nulls, counts, coverage, reasons', async () => {
+    const rows: ChannelHourRow[] = [
+      { hourStart: OCTOBER, value: 61.25, status: 'valid', coverage: 1, readingsValid: 60, readingsTotal: 60, reason: null },
+      { hourStart: OCTOBER + H, value: 0.1 + 0.2, status: 'valid', coverage: 0.75, readingsValid: 45, readingsTotal: 58, reason: null },
+      { hourStart: OCTOBER + 2 * H, value: null, status: 'invalid', coverage: 0.2, readingsValid: 12, readingsTotal: 60, reason: 'Kalibrierung — calibration ✓' },
+      { hourStart: OCTOBER + 3 * H, value: -0.5, status: 'substituted', coverage: 0, readingsValid: 0, readingsTotal: 0, reason: '' },
+    ];
+    const stored = await scope(async (s) => {
+      await ensureHourlyPartitions(s, OCTOBER, OCTOBER + 4 * H);
+      await replaceChannelHoursOf(s, [tree.channelId], OCTOBER, OCTOBER + 4 * H, new Map([[tree.channelId, rows]]));
+      return loadChannelHours(s, [tree.channelId], OCTOBER, OCTOBER + 4 * H);
+    });
+    expect(stored.map(({ channelId, computedAt, ...row }) => (channelId === tree.channelId && computedAt > 0 ? row : null))).toEqual(rows);
+  });
+
+  it('stores every field of limit hours, nulls included', async () => {
+    const rows: LimitHourRow[] = [
+      { hourStart: OCTOBER, value: 182.4, status: 'valid', reason: null, o2PercentDry: 3.2, coverage: 1, dryMgPerNm3: 190.1, massKgPerHour: 12.5, channelId: tree.channelId },
+      { hourStart: OCTOBER + H, value: null, status: 'invalid', reason: 'O2 missing', o2PercentDry: null, coverage: null, dryMgPerNm3: null, massKgPerHour: null, channelId: tree.channelId },
+    ];
+    const stored = await scope(async (s) => {
+      await ensureHourlyPartitions(s, OCTOBER, OCTOBER + 2 * H);
+      await replaceLimitHours(s, tree.limitId, OCTOBER, OCTOBER + 2 * H, rows);
+      return loadLimitHours(s, [tree.limitId], OCTOBER, OCTOBER + 2 * H);
+    });
+    expect(stored.map(({ limitId, computedAt, ...row }) => (limitId === tree.limitId && computedAt > 0 ? row : null))).toEqual(rows);
   });
 });

@@ -5,6 +5,7 @@
  */
 import type { ReadingColumns } from '@flueledger/calc';
 import type { Knex } from 'knex';
+import { float8Param, int4Param, nullableTextParam, textParam, timestamptzParam, uuidRunsParam } from '../../lib/pg-arrays';
 import { ensureMonthPartitions } from '../readings/readings.store';
 import { type ChannelHourRow, DB_READING_STATUSES, type DbReadingStatus, READING_STATUS_CODE } from './channel-hours';
 import type { LimitHourRow } from './limit-hours';
@@ -12,8 +13,6 @@ import type { ResultsScope } from './stack-context';
 
 const iso = (ms: number) => new Date(ms).toISOString();
 
-/** Bindings with arrays holding nulls (node-postgres sends them as SQL arrays with NULL elements). */
-const arrays = (values: unknown[]): Knex.RawBinding[] => values as Knex.RawBinding[];
 
 /** Stored reading status (1-based position in DB_READING_STATUSES, as SQL computes it). */
 const statusIndexSql = `array_position(array[${DB_READING_STATUSES.map((s) => `'${s}'`).join(',')}]::text[], r.status)`;
@@ -97,29 +96,7 @@ export async function ensureHourlyPartitions(scope: ResultsScope, fromMs: number
 
 /** Replaces the channel's hourly values in [fromMs, toMs) by `rows` (which lie inside it). */
 export async function replaceChannelHours(scope: ResultsScope, channelId: string, fromMs: number, toMs: number, rows: readonly ChannelHourRow[]): Promise<void> {
-  await scope.db.raw('delete from hourly_values where tenant_id = ? and channel_id = ? and hour_start >= ? and hour_start < ?', [
-    scope.tenantId,
-    channelId,
-    iso(fromMs),
-    iso(toMs),
-  ]);
-  if (rows.length === 0) return;
-  await scope.db.raw(
-    `insert into hourly_values (tenant_id, channel_id, hour_start, value, status, coverage, readings_valid, readings_total, reason, computed_at)
-     select ?, ?, to_timestamp(u.h / 1000.0), u.v, u.s, u.c, u.rv, u.rt, u.r, now()
-       from unnest(?::float8[], ?::float8[], ?::text[], ?::float8[], ?::int[], ?::int[], ?::text[]) as u(h, v, s, c, rv, rt, r)`,
-    arrays([
-      scope.tenantId,
-      channelId,
-      rows.map((r) => r.hourStart),
-      rows.map((r) => r.value),
-      rows.map((r) => r.status),
-      rows.map((r) => clampCoverage(r.coverage)),
-      rows.map((r) => r.readingsValid),
-      rows.map((r) => r.readingsTotal),
-      rows.map((r) => r.reason),
-    ]),
-  );
+  await replaceChannelHoursOf(scope, [channelId], fromMs, toMs, new Map([[channelId, rows]]));
 }
 
 /**
@@ -141,31 +118,37 @@ export async function replaceChannelHoursOf(
     iso(toMs),
   ]);
   const ids: string[] = [];
+  const counts: number[] = [];
   const all: ChannelHourRow[] = [];
   for (const channelId of channelIds) {
-    for (const r of rowsByChannel.get(channelId) ?? []) {
-      ids.push(channelId);
-      all.push(r);
-    }
+    const rows = rowsByChannel.get(channelId) ?? [];
+    if (rows.length === 0) continue;
+    ids.push(channelId);
+    counts.push(rows.length);
+    for (const r of rows) all.push(r);
   }
   if (all.length === 0) return;
+  // Binary array parameters (lib/pg-arrays.ts): nothing is turned into text on either side.
   await scope.db.raw(
     `insert into hourly_values (tenant_id, channel_id, hour_start, value, status, coverage, readings_valid, readings_total, reason, computed_at)
-     select ?, u.ch, to_timestamp(u.h / 1000.0), u.v, u.s, u.c, u.rv, u.rt, u.r, now()
-       from unnest(?::uuid[], ?::float8[], ?::float8[], ?::text[], ?::float8[], ?::int[], ?::int[], ?::text[]) as u(ch, h, v, s, c, rv, rt, r)`,
-    arrays([
+     select ?, u.ch, u.h, u.v, u.s, u.c, u.rv, u.rt, u.r, now()
+       from unnest(?::uuid[], ?::timestamptz[], ?::float8[], ?::text[], ?::float8[], ?::int4[], ?::int4[], ?::text[]) as u(ch, h, v, s, c, rv, rt, r)`,
+    [
       scope.tenantId,
-      ids,
-      all.map((r) => r.hourStart),
-      all.map((r) => r.value),
-      all.map((r) => r.status),
-      all.map((r) => clampCoverage(r.coverage)),
-      all.map((r) => r.readingsValid),
-      all.map((r) => r.readingsTotal),
-      all.map((r) => r.reason),
-    ]),
+      uuidRunsParam(ids, counts),
+      timestamptzParam(all.map((r) => r.hourStart)),
+      float8Param(all.map((r) => nullAsNaN(r.value))),
+      textParam(all.map((r) => r.status)),
+      float8Param(all.map((r) => clampCoverage(r.coverage))),
+      int4Param(all.map((r) => r.readingsValid)),
+      int4Param(all.map((r) => r.readingsTotal)),
+      nullableTextParam(all.map((r) => r.reason)),
+    ],
   );
 }
+
+/** A nullable number as float8Param takes it (NaN is sent as NULL). */
+const nullAsNaN = (value: number | null): number => (value === null ? NaN : value);
 
 /** Coverage as stored (0–1). */
 export function clampCoverage(coverage: number): number {
@@ -184,22 +167,22 @@ export async function replaceLimitHours(scope: ResultsScope, limitId: string, fr
   await scope.db.raw(
     `insert into limit_hourly_values (tenant_id, limit_id, hour_start, value, status, reason, o2_percent_dry, coverage, dry_mg_per_nm3,
                                       mass_kg_per_hour, channel_id, computed_at)
-     select ?, ?, to_timestamp(u.h / 1000.0), u.v, u.s, u.r, u.o2, u.c, u.d, u.m, ?, now()
-       from unnest(?::float8[], ?::float8[], ?::text[], ?::text[], ?::float8[], ?::float8[], ?::float8[], ?::float8[])
+     select ?, ?, u.h, u.v, u.s, u.r, u.o2, u.c, u.d, u.m, ?, now()
+       from unnest(?::timestamptz[], ?::float8[], ?::text[], ?::text[], ?::float8[], ?::float8[], ?::float8[], ?::float8[])
          as u(h, v, s, r, o2, c, d, m)`,
-    arrays([
+    [
       scope.tenantId,
       limitId,
       rows[0]!.channelId,
-      rows.map((r) => r.hourStart),
-      rows.map((r) => r.value),
-      rows.map((r) => r.status),
-      rows.map((r) => r.reason),
-      rows.map((r) => r.o2PercentDry),
-      rows.map((r) => (r.coverage === null ? null : Math.min(1, Math.max(0, r.coverage)))),
-      rows.map((r) => r.dryMgPerNm3),
-      rows.map((r) => r.massKgPerHour),
-    ]),
+      timestamptzParam(rows.map((r) => r.hourStart)),
+      float8Param(rows.map((r) => nullAsNaN(r.value))),
+      textParam(rows.map((r) => r.status)),
+      nullableTextParam(rows.map((r) => r.reason)),
+      float8Param(rows.map((r) => nullAsNaN(r.o2PercentDry))),
+      float8Param(rows.map((r) => (r.coverage === null ? NaN : clampCoverage(r.coverage)))),
+      float8Param(rows.map((r) => nullAsNaN(r.dryMgPerNm3))),
+      float8Param(rows.map((r) => nullAsNaN(r.massKgPerHour))),
+    ],
   );
 }
 
