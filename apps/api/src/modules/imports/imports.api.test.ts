@@ -496,6 +496,16 @@ describe('conflicts and rollback', () => {
     expect(all[1]!.reason).toBe('Logger re-export after span correction');
   });
 
+  it('names the committing officer as the author of both versions in the drill-down', async () => {
+    const t0 = '2026-10-05T08:01:00.000Z';
+    const res = await auditor.get(`/api/channels/${conflictStack.channelIds.NOx}/readings?from=${encodeURIComponent(t0)}&to=${encodeURIComponent('2026-10-05T08:02:00.000Z')}&includeSuperseded=true`);
+    expect(res.status).toBe(200);
+    expect(res.body.items.map((r: { importId: string; createdBy: string; current: boolean }) => [r.importId, r.createdBy, r.current])).toEqual([
+      [firstId, org.users.officer.id, false],
+      [secondId, org.users.officer.id, true],
+    ]);
+  });
+
   it('refuses to roll back the first import while the second replaced some of its values', async () => {
     const res = await officer.post(`/api/imports/${firstId}/rollback`, { reason: 'wrong stack' });
     expect(res.status).toBe(409);

@@ -832,6 +832,8 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
     // readings per channel back afterwards), and stored after the inserts, in this transaction.
     const prepared: PreparedReadingsChange | null = nothingStored && change && counts.new > 0 ? await prepareReadingsChange(hookCtx, change, readingColumnsOf(incoming)) : null;
 
+    // New readings carry their import but no created_by: who brought them is the import's
+    // committer (imports.committed_by), as the drill-down reports (migration 20261212000300).
     // New readings, one channel at a time so progress moves. Channels in id order and times in
     // order: the rows then reach the current-readings index in its own key order (channel, t), so
     // its pages fill from left to right instead of splitting all over. The staged readings are in
@@ -851,14 +853,14 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
       const insert = Promise.resolve(
         nothingStored
           ? ctx.db.raw(
-              `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
-               select ?::uuid, ?::uuid, unnest(?::timestamptz[]), unnest(?::float8[]), unnest(?::text[]), ?::uuid, ?::uuid`,
-              [ctx.tenantId, channelId, ...nextParams, importId, ctx.userId],
+              `insert into readings (tenant_id, channel_id, t, value, status, import_id)
+               select ?::uuid, ?::uuid, unnest(?::timestamptz[]), unnest(?::float8[]), unnest(?::text[]), ?::uuid`,
+              [ctx.tenantId, channelId, ...nextParams, importId],
             )
           : ctx.db.raw(
-              `insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by)
-               select ?, channel_id, t, value, status, ?, ? from import_incoming where cls = 'new' and channel_id = ? order by t`,
-              [ctx.tenantId, importId, ctx.userId, channelId],
+              `insert into readings (tenant_id, channel_id, t, value, status, import_id)
+               select ?, channel_id, t, value, status, ? from import_incoming where cls = 'new' and channel_id = ? order by t`,
+              [ctx.tenantId, importId, channelId],
             ),
       );
       insert.catch(() => undefined);
@@ -890,14 +892,14 @@ export async function commit(ctx: ImportCtx, deps: ImportDeps, importId: string,
       superseded = old.rowCount ?? 0;
       await ctx.db.raw(
         `with fresh as (
-           insert into readings (tenant_id, channel_id, t, value, status, import_id, created_by, reason)
-           select ?, channel_id, t, value, status, ?, ?, ? from import_incoming where cls = 'conflict'
+           insert into readings (tenant_id, channel_id, t, value, status, import_id, reason)
+           select ?, channel_id, t, value, status, ?, ? from import_incoming where cls = 'conflict'
            returning id, channel_id, t
          )
          update readings o set superseded_by = fresh.id
          from fresh join import_incoming i on i.channel_id = fresh.channel_id and i.t = fresh.t and i.cls = 'conflict'
          where o.tenant_id = ? and o.channel_id = fresh.channel_id and o.t = fresh.t and o.id = i.current_id`,
-        [ctx.tenantId, importId, ctx.userId, body.reason ?? null, ctx.tenantId],
+        [ctx.tenantId, importId, body.reason ?? null, ctx.tenantId],
       );
     }
     await commitTestHooks.onPhase?.('inserted', ctx.db);

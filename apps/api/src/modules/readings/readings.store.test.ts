@@ -12,6 +12,7 @@ let owner: Knex;
 let sessionA: Knex;
 let sessionB: Knex;
 let tenantId: string;
+const authorId = randomUUID();
 
 /** One pooled connection: every transaction of this Knex runs in the same database session. */
 function oneSession(): Knex {
@@ -37,7 +38,7 @@ async function writeVersion(session: Knex, stackId: string, channelId: string, t
     const current = await trx('readings').where({ tenant_id: tenantId, channel_id: channelId, t }).whereNull('superseded_at').first('id');
     if (current) await trx('readings').where({ tenant_id: tenantId, id: current.id }).update({ superseded_at: trx.fn.now() });
     const [row] = await trx('readings')
-      .insert({ tenant_id: tenantId, channel_id: channelId, t, value, status: 'substituted', reason: 'test version' })
+      .insert({ tenant_id: tenantId, channel_id: channelId, t, value, status: 'substituted', reason: 'test version', created_by: authorId })
       .returning('id');
     if (current) await trx('readings').where({ tenant_id: tenantId, id: current.id }).update({ superseded_by: row.id });
     return String(row.id);
@@ -73,4 +74,15 @@ it('orders the versions of a reading by id when sessions take turns under the st
   expect(versions.map((v) => v.value)).toEqual([1, 2, 3, 4]);
   expect(versions.map((v) => String(v.id))).toEqual(ids);
   expect(versions.map((v) => (v.superseded_by === null ? null : String(v.superseded_by)))).toEqual([ids[1], ids[2], ids[3], null]);
+});
+
+it('refuses a reading without an author: neither a person (created_by) nor an import', async () => {
+  const write = (row: Record<string, unknown>) =>
+    owner.transaction(async (trx) => {
+      await trx.raw("select set_config('app.tenant_id', ?, true)", [tenantId]);
+      await trx('readings').insert({ tenant_id: tenantId, channel_id: randomUUID(), t: '2026-10-05T09:00:00Z', value: 1, status: 'valid', ...row });
+    });
+  await expect(write({})).rejects.toMatchObject({ code: '23514', constraint: 'readings_author' });
+  await expect(write({ import_id: randomUUID() })).resolves.toBeUndefined();
+  await expect(write({ created_by: randomUUID() })).resolves.toBeUndefined();
 });

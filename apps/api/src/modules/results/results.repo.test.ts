@@ -28,7 +28,7 @@ beforeAll(async () => {
   const instants = [SEPTEMBER, DECEMBER];
   for (let ms = NOV_FIRST; ms <= NOV_LAST; ms += 60_000) instants.push(ms);
   await asOwnerInTenant(owner, org.id, (trx) =>
-    trx('readings').insert(instants.map((ms) => ({ tenant_id: org.id, channel_id: tree.channelId, t: new Date(ms), value: 50, status: 'valid' }))),
+    trx('readings').insert(instants.map((ms) => ({ tenant_id: org.id, channel_id: tree.channelId, t: new Date(ms), value: 50, status: 'valid', created_by: org.users.officer.id }))),
   );
 });
 

@@ -70,7 +70,7 @@ export async function getReadings(ctx: ReviewCtx, channelId: string, query: Read
         .where({ tenant_id: ctx.tenantId })
         .whereIn('id', importIds)
         .orderBy('uploaded_at')
-        .select('id', 'file_name', 'sha256', 'state', 'uploaded_at', 'uploaded_by', 'committed_at', 'rolled_back_at')) as {
+        .select('id', 'file_name', 'sha256', 'state', 'uploaded_at', 'uploaded_by', 'committed_at', 'committed_by', 'rolled_back_at')) as {
         id: string;
         file_name: string;
         sha256: string;
@@ -78,9 +78,12 @@ export async function getReadings(ctx: ReviewCtx, channelId: string, query: Read
         uploaded_at: Date;
         uploaded_by: string;
         committed_at: Date | null;
+        committed_by: string | null;
         rolled_back_at: Date | null;
       }[])
     : [];
+  // An import's readings name no author of their own: it is the import's committer.
+  const committerOf = new Map(imports.map((i) => [i.id, i.committed_by]));
 
   const hourFrom = Math.floor(from / millisecondsInHour) * millisecondsInHour;
   const hourTo = Math.ceil(to / millisecondsInHour) * millisecondsInHour;
@@ -105,7 +108,7 @@ export async function getReadings(ctx: ReviewCtx, channelId: string, query: Read
       status: r.status,
       current: r.superseded_at === null,
       importId: r.import_id,
-      createdBy: r.created_by,
+      createdBy: r.created_by ?? (r.import_id === null ? null : (committerOf.get(r.import_id) ?? null)),
       createdAt: toIsoRequired(r.created_at),
       supersededAt: toIso(r.superseded_at),
       supersededBy: r.superseded_by === null ? null : String(r.superseded_by),
