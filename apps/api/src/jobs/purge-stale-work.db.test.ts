@@ -8,7 +8,7 @@ let owner: Knex;
 let app: Knex;
 let org: TestOrganisation;
 
-/** Inserts an import in the given state with two staging rows, as the owner inside the tenant. */
+/** Inserts an import in the given state with two staged parts, as the owner inside the tenant. */
 async function importWithStaging(state: string, uploadedDaysAgo: number): Promise<string> {
   return owner.transaction(async (trx) => {
     await trx.raw("select set_config('app.tenant_id', ?, true)", [org.id]);
@@ -29,7 +29,7 @@ async function importWithStaging(state: string, uploadedDaysAgo: number): Promis
         state,
       })
       .returning('id');
-    await trx('import_rows').insert([1, 2].map((n) => ({ tenant_id: org.id, import_id: imp.id, row_number: n, t: new Date(), status: 'valid', vals: [1] })));
+    await trx('import_columns').insert([0, 1].map((part) => ({ tenant_id: org.id, import_id: imp.id, part, content: Buffer.from([part]) })));
     return imp.id as string;
   });
 }
@@ -37,7 +37,7 @@ async function importWithStaging(state: string, uploadedDaysAgo: number): Promis
 async function stagingCount(importId: string): Promise<number> {
   return owner.transaction(async (trx) => {
     await trx.raw("select set_config('app.tenant_id', ?, true)", [org.id]);
-    const [{ n }] = await trx('import_rows').where({ import_id: importId }).count<{ n: string }[]>({ n: '*' });
+    const [{ n }] = await trx('import_columns').where({ import_id: importId }).count<{ n: string }[]>({ n: '*' });
     return Number(n);
   });
 }
@@ -85,7 +85,7 @@ describe('the purge-stale-work job', () => {
 
   it('cannot be used by the API role to read staging directly', async () => {
     const draft = await importWithStaging('parsed', 0);
-    const rows = await app('import_rows').where({ import_id: draft }).select('row_number');
+    const rows = await app('import_columns').where({ import_id: draft }).select('part');
     expect(rows).toEqual([]);
   });
 });
