@@ -510,5 +510,8 @@ describe('.xlsx reader, damaged workbooks', () => {
     const rejected = await rejection(bytes.subarray(0, Math.floor(bytes.length * 0.6)));
     expect(rejected.status).toBe(422);
     expect(rejected.code).toBe('corrupt_workbook');
+    // Said in words, not as the zip reader's code.
+    expect(rejected.message).toMatch(/ends before the workbook does/);
+    expect(rejected.message).not.toMatch(/FILE_ENDED/);
   });
 });

@@ -229,7 +229,16 @@ async function parseWorkbook(bytes: Buffer, options: InterpretOptions): Promise<
     if (sheet.found && interpreter) return { ...(interpreter as SheetInterpreter).finish(), format: 'xlsx', sheetName: sheet.sheetName };
   } catch (error) {
     if (error instanceof SheetRejected || error instanceof FileRejected) rethrow(error);
-    throw new FileRejected(422, 'corrupt_workbook', `The workbook cannot be read; it may be damaged or incomplete (${(error as Error).message.slice(0, 120)}).`);
+    throw new FileRejected(422, 'corrupt_workbook', corruptWorkbookMessage(error));
   }
   throw new FileRejected(422, 'empty_sheet', sheet.sheetsSeen === 0 ? 'The workbook has no worksheets.' : 'The workbook has no rows with data.');
+}
+
+/** Why a workbook cannot be read, in words (the zip reader's own codes mean nothing to a reader). */
+function corruptWorkbookMessage(error: unknown): string {
+  const cause = error instanceof Error ? error.message : String(error);
+  if (cause === 'FILE_ENDED') {
+    return 'The workbook cannot be read: the file ends before the workbook does, so it was probably cut short while it was exported, copied or downloaded. Export it again and upload the new file.';
+  }
+  return `The workbook cannot be read; it may be damaged or incomplete (${cause.slice(0, 120)}).`;
 }
