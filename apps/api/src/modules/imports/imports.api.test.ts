@@ -500,9 +500,11 @@ describe('conflicts and rollback', () => {
     const t0 = '2026-10-05T08:01:00.000Z';
     const res = await auditor.get(`/api/channels/${conflictStack.channelIds.NOx}/readings?from=${encodeURIComponent(t0)}&to=${encodeURIComponent('2026-10-05T08:02:00.000Z')}&includeSuperseded=true`);
     expect(res.status).toBe(200);
-    expect(res.body.items.map((r: { importId: string; createdBy: string; current: boolean }) => [r.importId, r.createdBy, r.current])).toEqual([
-      [firstId, org.users.officer.id, false],
-      [secondId, org.users.officer.id, true],
+    expect(
+      res.body.items.map((r: { importId: string; createdBy: string; createdByName: string; current: boolean }) => [r.importId, r.createdBy, r.createdByName, r.current]),
+    ).toEqual([
+      [firstId, org.users.officer.id, org.users.officer.name, false],
+      [secondId, org.users.officer.id, org.users.officer.name, true],
     ]);
   });
 

@@ -84,6 +84,11 @@ export async function getReadings(ctx: ReviewCtx, channelId: string, query: Read
     : [];
   // An import's readings name no author of their own: it is the import's committer.
   const committerOf = new Map(imports.map((i) => [i.id, i.committed_by]));
+  const authorOf = (r: ReadingRow): string | null => r.created_by ?? (r.import_id === null ? null : (committerOf.get(r.import_id) ?? null));
+  const authorIds = [...new Set(rows.map(authorOf).filter((id): id is string => id !== null))];
+  const authorNames = new Map(
+    authorIds.length === 0 ? [] : ((await ctx.db('users').whereIn('id', authorIds).select('id', 'name')) as { id: string; name: string }[]).map((u) => [u.id, u.name]),
+  );
 
   const hourFrom = Math.floor(from / millisecondsInHour) * millisecondsInHour;
   const hourTo = Math.ceil(to / millisecondsInHour) * millisecondsInHour;
@@ -108,7 +113,8 @@ export async function getReadings(ctx: ReviewCtx, channelId: string, query: Read
       status: r.status,
       current: r.superseded_at === null,
       importId: r.import_id,
-      createdBy: r.created_by ?? (r.import_id === null ? null : (committerOf.get(r.import_id) ?? null)),
+      createdBy: authorOf(r),
+      createdByName: authorNames.get(authorOf(r) ?? '') ?? null,
       createdAt: toIsoRequired(r.created_at),
       supersededAt: toIso(r.superseded_at),
       supersededBy: r.superseded_by === null ? null : String(r.superseded_by),

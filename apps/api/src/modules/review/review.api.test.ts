@@ -448,6 +448,10 @@ describe('POST /api/channels/:channelId/corrections', () => {
     const raw = all.body.items.filter((r: { current: boolean }) => !r.current);
     expect(raw).toHaveLength(60);
     const replacement = new Map(all.body.items.filter((r: { current: boolean }) => r.current).map((r: { t: string; id: string }) => [r.t, r.id]));
+    // The correction's rows name the officer who made it.
+    for (const r of all.body.items.filter((item: { current: boolean }) => item.current)) {
+      expect(r).toMatchObject({ importId: null, createdBy: org.users.officer.id, createdByName: org.users.officer.name });
+    }
     for (const r of raw) {
       expect(r).toMatchObject({ value: 150, status: 'valid', importId, reason: null });
       expect(r.supersededAt).toEqual(expect.any(String));

@@ -202,7 +202,9 @@ export const ReadingDto = z.object({
   status: z.string(),
   current: z.boolean(),
   importId: z.string().nullable(),
+  /** Who wrote the reading: a person's correction, or the committer of the import that brought it. */
   createdBy: z.string().nullable(),
+  createdByName: z.string().nullable(),
   createdAt: z.string(),
   supersededAt: z.string().nullable(),
   supersededBy: z.string().nullable(),

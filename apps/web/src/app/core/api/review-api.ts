@@ -188,7 +188,9 @@ export interface RawReading {
   status: ReadingStatus | string;
   current: boolean;
   importId: string | null;
+  /** Who wrote it: the person who made the correction, or the committer of its import. */
   createdBy: string | null;
+  createdByName: string | null;
   createdAt: string;
   supersededAt: string | null;
   supersededBy: string | null;

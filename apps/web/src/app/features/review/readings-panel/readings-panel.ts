@@ -96,6 +96,12 @@ export class ReadingsPanel {
     return this.importNames().get(reading.importId) ?? `Import ${reading.importId.slice(0, 8)}`;
   }
 
+  /** Who wrote the reading into the record, and when (a correction's author, an import's committer). */
+  protected writtenText(reading: RawReading): string {
+    const when = formatZoned(reading.createdAt, this.timeZone());
+    return reading.createdByName ? `by ${reading.createdByName}, ${when}` : when;
+  }
+
   protected apply(): void {
     if (this.saving()) return;
     const { action, value, reason } = this.form.getRawValue();

@@ -33,7 +33,7 @@ function text(fixture: ComponentFixture<unknown>): string {
 }
 
 const reading = (id: string, t: string, value: number): RawReading => ({
-  id, t, value, status: 'valid', current: true, importId: 'imp-1', createdBy: 'user-officer', createdAt: '2026-12-01T08:04:00Z',
+  id, t, value, status: 'valid', current: true, importId: 'imp-1', createdBy: 'user-officer', createdByName: 'Priya Okafor', createdAt: '2026-12-01T08:04:00Z',
   supersededAt: null, supersededBy: null, reason: null,
 });
 const readings = readingsFixture([reading('1', '2026-10-31T23:01:00Z', 58.2), reading('2', '2026-10-31T23:02:00Z', 61.9)]);
@@ -235,7 +235,8 @@ describe('ReviewPage', () => {
     const raw = await loader.getHarness(MatTableHarness.with({ selector: '[aria-label="Raw readings of the hour"]' }));
     const cells = await raw.getCellTextByColumnName();
     expect(cells['value'].text).toEqual(['58.2', '61.9']);
-    expect(cells['import'].text[0]).toBe('boiler2-2026-11.xlsx');
+    // The source, then who wrote the reading into the record and when (the import's committer).
+    expect(cells['import'].text[0]).toMatch(/^boiler2-2026-11\.xlsx\s*by Priya Okafor, 1 Dec 2026/);
 
     expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Apply correction' }))).toHaveLength(0);
     expect(await loader.getAllHarnesses(MatRadioGroupHarness)).toHaveLength(0);
