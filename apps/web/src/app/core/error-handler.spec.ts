@@ -7,7 +7,7 @@ import { MatSnackBarHarness } from '@angular/material/snack-bar/testing';
 import { Router, provideRouter } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 
-import { handledByCaller } from './api/api-error';
+import { handledByCaller, messageShownByCaller } from './api/api-error';
 import { Auth } from './auth/auth';
 import { errorInterceptor } from './error-handler';
 import { meAs } from '../testing/me-fixtures';
@@ -94,5 +94,29 @@ describe('errorInterceptor', () => {
 
     expect(await snackBarMessages()).toEqual([]);
     expect(TestBed.inject(Router).url).toBe('/members');
+  });
+
+  it('shows no snackbar when the caller shows the message itself', async () => {
+    const result = firstValueFrom(client.post('/api/stacks/s1/imports', {}, { context: messageShownByCaller() })).catch((error: unknown) => error);
+    http.expectOne('/api/stacks/s1/imports').flush(
+      { error: { code: 'corrupt_workbook', message: 'The workbook cannot be read.' } },
+      { status: 422, statusText: 'Unprocessable Entity' },
+    );
+    await result;
+    await settle();
+
+    expect(await snackBarMessages()).toEqual([]);
+  });
+
+  it('still sends the person to sign-in when the caller shows the message itself', async () => {
+    const result = firstValueFrom(client.post('/api/stacks/s1/imports', {}, { context: messageShownByCaller() })).catch((error: unknown) => error);
+    http.expectOne('/api/stacks/s1/imports').flush(
+      { error: { code: 'unauthenticated', message: 'Sign in first.' } },
+      { status: 401, statusText: 'Unauthorized' },
+    );
+    await result;
+    await settle();
+
+    expect(TestBed.inject(Router).url).toBe('/sign-in?returnUrl=%2Fmembers');
   });
 });

@@ -15,6 +15,17 @@ export function handledByCaller(): HttpContext {
   return new HttpContext().set(ERRORS_HANDLED_BY_CALLER, true);
 }
 
+/**
+ * Marks a request whose caller shows the error's message itself, next to what failed (the file
+ * upload): the global error interceptor shows no snackbar with the same words, but still sends a
+ * person whose session has ended to sign-in.
+ */
+export const ERROR_MESSAGE_SHOWN_BY_CALLER = new HttpContextToken<boolean>(() => false);
+
+export function messageShownByCaller(): HttpContext {
+  return new HttpContext().set(ERROR_MESSAGE_SHOWN_BY_CALLER, true);
+}
+
 function isApiErrorBody(body: unknown): body is ApiErrorBody {
   if (typeof body !== 'object' || body === null || !('error' in body)) return false;
   const error = (body as { error: unknown }).error;

@@ -2,6 +2,7 @@ import { HttpClient, HttpContext, HttpEvent, HttpParams } from '@angular/common/
 import { Injectable, inject } from '@angular/core';
 import { Observable } from 'rxjs';
 
+import { messageShownByCaller } from './api-error';
 import { ListPage } from './list-page';
 
 // Shapes of apps/api/src/modules/imports/imports.schemas.ts (the source of truth).
@@ -173,7 +174,8 @@ export class ImportsApi {
     if (options.periodTo) body.append('periodTo', options.periodTo);
     // Fields before the file, so the server knows them when the file stream arrives.
     body.append('file', file, file.name);
-    return this.http.post<ImportDraft>(`/api/stacks/${stackId}/imports`, body, { reportProgress: true, observe: 'events' });
+    // The upload step shows a refusal next to the file field: no second copy in a snackbar.
+    return this.http.post<ImportDraft>(`/api/stacks/${stackId}/imports`, body, { reportProgress: true, observe: 'events', context: messageShownByCaller() });
   }
 
   list(stackId: string, limit: number, offset: number): Observable<ListPage<ImportSummary>> {

@@ -8,6 +8,7 @@ import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatProgressBarHarness } from '@angular/material/progress-bar/testing';
 import { provideRouter } from '@angular/router';
 
+import { ERROR_MESSAGE_SHOWN_BY_CALLER } from '../../../core/api/api-error';
 import { Auth } from '../../../core/auth/auth';
 import { meAs } from '../../../testing/me-fixtures';
 import { site, stack } from '../../review/testing/review-fixtures';
@@ -75,6 +76,8 @@ describe('ImportPage', () => {
 
     const upload = http.expectOne({ method: 'POST', url: '/api/stacks/stack-b2/imports' });
     expect((upload.request.body as FormData).get('file')).toBeInstanceOf(File);
+    // A refusal is shown next to the file field, not a second time in the app-wide snackbar.
+    expect(upload.request.context.get(ERROR_MESSAGE_SHOWN_BY_CALLER)).toBe(true);
     upload.event({ type: HttpEventType.UploadProgress, loaded: 40, total: 100 });
     await settle(fixture);
     expect(await (await loader.getHarness(MatProgressBarHarness)).getValue()).toBe(40);
