@@ -17,6 +17,9 @@ declare module 'unzipper' {
   interface ZipEntry {
     path: string;
     type: 'File' | 'Directory';
+    /** CRC-32 and size of the inflated content, from the central directory. */
+    crc32: number;
+    uncompressedSize: number;
     /** The entry's content, inflated. */
     stream(password?: string): Readable;
   }

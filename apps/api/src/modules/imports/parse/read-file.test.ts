@@ -505,6 +505,43 @@ describe('.xlsx reader, damaged workbooks', () => {
     expect(parsed.sheetName).toBe('Hand written');
   });
 
+  describe('checks each part against the CRC-32 the zip records', () => {
+    /** A small logger sheet, its parts stored uncompressed: the sheet's digits are bytes of the file. */
+    async function storedWorkbook(): Promise<Buffer> {
+      const workbook = new ExcelJS.Workbook();
+      const ws = workbook.addWorksheet('Data');
+      ws.addRow(['Time stamp', 'NOx [mg/Nm3] dry']);
+      for (let minute = 1; minute <= 30; minute++) ws.addRow([wall(2026, 12, 1, 0, minute), minute === 7 ? 61.25 : 50 + minute]);
+      ws.getColumn(1).numFmt = 'yyyy-mm-dd hh:mm';
+      const zip = await JSZip.loadAsync(await workbook.xlsx.writeBuffer());
+      return zip.generateAsync({ type: 'nodebuffer', compression: 'STORE' });
+    }
+
+    it('reads the intact file', async () => {
+      const parsed = await parseImportFile(await storedWorkbook(), options);
+      expect(parsed.rowCount).toBe(30);
+    });
+
+    it('refuses a file in which one digit of a value changed, instead of importing the other value', async () => {
+      const bytes = await storedWorkbook();
+      const at = bytes.indexOf('61.25');
+      expect(at).toBeGreaterThan(0);
+      bytes[at + 1] = '7'.charCodeAt(0); // 61.25 → 67.25: still a number, still valid XML
+      const rejected = await rejection(bytes);
+      expect([rejected.status, rejected.code]).toEqual([422, 'corrupt_workbook']);
+      expect(rejected.message).toMatch(/damaged .*checksum/);
+    });
+
+    it('reports damage as damage when it also garbles the sheet XML', async () => {
+      const bytes = await storedWorkbook();
+      const at = bytes.indexOf('<sheetData>');
+      bytes[at + 3] = '>'.charCodeAt(0);
+      const rejected = await rejection(bytes);
+      expect(rejected.code).toBe('corrupt_workbook');
+      expect(rejected.message).toMatch(/damaged .*checksum/);
+    });
+  });
+
   it('refuses a workbook file cut short', async () => {
     const bytes = await bufferOf(casesWorkbook());
     const rejected = await rejection(bytes.subarray(0, Math.floor(bytes.length * 0.6)));

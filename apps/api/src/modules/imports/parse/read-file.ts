@@ -4,6 +4,7 @@
  * interpreter. The first sheet with data is read; a workbook's other sheets are ignored.
  */
 import { Readable } from 'node:stream';
+import zlib from 'node:zlib';
 import ExcelJS from 'exceljs';
 import unzipper from 'unzipper';
 import excelUtils from 'exceljs/lib/utils/utils';
@@ -177,7 +178,10 @@ export async function readFirstSheetWithData(bytes: Buffer, open: (date1904: boo
     hyperlinks: 'ignore',
     worksheets: 'emit',
   }) as unknown as WorkbookInternals;
-  const part = (path: string): Readable | null => parts.get(path)?.stream() ?? null;
+  const part = (path: string): Readable | null => {
+    const file = parts.get(path);
+    return file ? Readable.from(checkedContent(file)) : null;
+  };
   const rels = part('xl/_rels/workbook.xml.rels');
   if (rels) await workbook._parseRels(rels);
   const book = part('xl/workbook.xml');
@@ -194,21 +198,54 @@ export async function readFirstSheetWithData(bytes: Buffer, open: (date1904: boo
     sheetsSeen++;
     let anyRow = false;
     const sink = open(workbook.properties?.model?.date1904 ?? false);
-    await readSheetRows(file.stream(), workbook, (rowNumber, cells) => {
-      if (!anyRow) {
-        for (const cell of cells) {
-          if (cell !== null && cell !== undefined && !(typeof cell === 'string' && cell.trim() === '')) {
-            anyRow = true;
-            break;
+    try {
+      await readSheetRows(checkedContent(file), workbook, (rowNumber, cells) => {
+        if (!anyRow) {
+          for (const cell of cells) {
+            if (cell !== null && cell !== undefined && !(typeof cell === 'string' && cell.trim() === '')) {
+              anyRow = true;
+              break;
+            }
           }
         }
-      }
-      sink(rowNumber, cells);
-    });
+        sink(rowNumber, cells);
+      });
+    } catch (error) {
+      // Damage usually garbles the XML before the part's end, where its checksum is checked:
+      // a sheet that cannot be read is checked through, so damage is reported as damage.
+      if (!(error instanceof DamagedPart)) for await (const _ of checkedContent(file));
+      throw error;
+    }
     if (anyRow) return { found: true, sheetsSeen, sheetName: sheetNameOf(workbook, sheetNo) };
   }
   return { found: false, sheetsSeen, sheetName: null };
 }
+
+/** A part of the zip whose inflated content does not match the size and CRC-32 the zip records. */
+class DamagedPart extends Error {}
+
+/**
+ * A zip part's content, checked against the CRC-32 and size its central directory records (the
+ * zip reader does not check them). A damaged part can still inflate, or be stored uncompressed:
+ * without the check, a changed digit in a sheet would be imported as a different value. The
+ * check ends the part's stream, so a sheet's rows are refused before anything is staged.
+ */
+async function* checkedContent(file: ZipPart): AsyncGenerator<Buffer> {
+  let crc = 0;
+  let size = 0;
+  for await (const chunk of file.stream() as AsyncIterable<Buffer>) {
+    crc = zlib.crc32(chunk, crc);
+    size += chunk.length;
+    yield chunk;
+  }
+  // 0xffffffff: the real size is in the zip64 extra field; the CRC-32 is always here.
+  const sizeKnown = file.uncompressedSize !== 0xffffffff;
+  if (crc !== file.crc32 || (sizeKnown && size !== file.uncompressedSize)) {
+    throw new DamagedPart(`the part ${file.path} does not match its recorded checksum`);
+  }
+}
+
+type ZipPart = Awaited<ReturnType<typeof unzipper.Open.buffer>>['files'][number];
 
 /** The worksheet's name in the workbook (its tab), found as exceljs's WorkbookReader finds it. */
 function sheetNameOf(workbook: WorkbookInternals, sheetNo: string): string {
@@ -237,6 +274,9 @@ async function parseWorkbook(bytes: Buffer, options: InterpretOptions): Promise<
 /** Why a workbook cannot be read, in words (the zip reader's own codes mean nothing to a reader). */
 function corruptWorkbookMessage(error: unknown): string {
   const cause = error instanceof Error ? error.message : String(error);
+  if (error instanceof DamagedPart) {
+    return 'The workbook cannot be read: part of the file is damaged (its content no longer matches the checksum the file records), so values in it cannot be trusted. Export it again and upload the new file.';
+  }
   if (cause === 'FILE_ENDED') {
     return 'The workbook cannot be read: the file ends before the workbook does, so it was probably cut short while it was exported, copied or downloaded. Export it again and upload the new file.';
   }
